@@ -17,6 +17,7 @@ interface RawFile {
   library: string;
   digits: number;
   functions: Record<string, RawCase[]>;
+  bernoulli: [number, string][];
 }
 
 const file = fileURLToPath(new URL('../reference/values.json', import.meta.url));
@@ -52,5 +53,13 @@ export function ulpError(actual: Complex, ref: Complex, P: number): number {
     const r = ref.abs();
     const unit = r.isZero() ? new Decimal(10).pow(1 - P) : new Decimal(10).pow(r.e - P + 1);
     return err.div(unit).toNumber();
+  });
+}
+
+/** Exact Bernoulli numbers from mpmath.bernfrac: [n, numerator, denominator]. */
+export function referenceBernoulli(): [number, bigint, bigint][] {
+  return raw.bernoulli.map(([n, frac]) => {
+    const [num, den] = frac.split('/');
+    return [n, BigInt(num!), BigInt(den!)];
   });
 }

@@ -110,6 +110,9 @@ def main():
         "digits": OUT_DIGITS,
         "seed": SEED,
         "functions": build(),
+        # exact Bernoulli numbers B_n as "num/den" (mpmath.bernfrac)
+        "bernoulli": [[n, "%d/%d" % tuple(int(x) for x in mpmath.bernfrac(n))]
+                      for n in list(range(0, 41)) + [50, 76, 100, 150, 200, 256, 300]],
     }
     json.dump(data, sys.stdout, indent=1)
     sys.stdout.write("\n")

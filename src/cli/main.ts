@@ -1,0 +1,18 @@
+#!/usr/bin/env node
+// Entry point of the `modvet` command: wires process streams to the CLI function.
+import { run } from './program.js';
+
+run(process.argv.slice(2), {
+  out: (s) => process.stdout.write(s),
+  err: (s) => process.stderr.write(s),
+}).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (e: unknown) => {
+    // an internal fault: say so plainly, without a stack trace unless asked for
+    process.stderr.write(`modvet: internal error: ${e instanceof Error ? e.message : String(e)}\n`);
+    if (process.env.MODVET_DEBUG) console.error(e);
+    process.exitCode = 3;
+  },
+);
