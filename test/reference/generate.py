@@ -99,6 +99,20 @@ def build():
     bs = cases_complex(rng, 8, -5, 10, -30, 30) + [["1", "0"], ["2", "0"], ["0", "0"], ["-3", "0"], ["0.5", "21"]]
     funcs['dirichletbeta'] = [{"args": [s], "value": out(mpmath.dirichlet(cz(s), [0, 1, 0, -1]))} for s in bs]
 
+    # Modular functions at points tau = x + iy: in and near the fundamental domain, and
+    # close to the real axis (the built-ins must be right there without reduction).
+    taus = [[num(rng.uniform(-0.5, 0.5)), num(rng.uniform(0.87, 2))] for _ in range(6)]
+    taus += [[num(rng.uniform(-0.5, 0.5)), num(rng.uniform(0.1, 0.5))] for _ in range(4)]
+    taus += [[num(rng.uniform(-0.5, 0.5)), num(rng.uniform(0.02, 0.1))] for _ in range(6)]
+    taus += [["0", "1"], ["0", "2"], ["0.5", "0.5"], ["-0.25", "3.5"], ["2.3", "0.7"]]
+    funcs['eta'] = [{"args": [t], "value": out(mpmath.eta(cz(t)))} for t in taus]
+    # mpmath normalises Klein's j as j/1728
+    funcs['kleinj'] = [{"args": [t], "value": out(mpmath.kleinj(cz(t)))} for t in taus]
+    # theta constants with nome exp(i pi tau); for |Re tau| <= 1 mpmath's principal
+    # q^(1/4) in theta_2 equals exp(i pi tau / 4)
+    for n in (2, 3, 4):
+        funcs['jtheta%d' % n] = [{"args": [t], "value": out(mpmath.jtheta(n, 0, mpmath.exp(1j * mpmath.pi * cz(t))))}
+                                 for t in taus if abs(mpf(t[0])) <= 1]
     return funcs
 
 
