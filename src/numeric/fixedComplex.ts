@@ -71,5 +71,6 @@ export function cexp(z: FxC, F: number): FxC {
 /** Principal log z (z != 0): log|z| + i arg z, arg in (-pi, pi]. */
 export function clog(z: FxC, F: number): FxC {
   const n2 = z.re * z.re + z.im * z.im; // |z|^2 at 2F bits
-  return { re: fx.log(n2, 2 * F) >> 1n, im: fx.atan2(z.im, z.re, F) };
+  // log(n2) is at 2F bits: halve it and drop F of them
+  return { re: fx.log(n2, 2 * F) >> BigInt(F + 1), im: fx.atan2(z.im, z.re, F) };
 }
