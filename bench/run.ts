@@ -2,8 +2,18 @@
  * `npm run bench`: median microseconds per evaluation, modvet beside mpmath, same
  * seeded arguments, same run. See bench/harness.ts for the timing method.
  */
+import { Decimal } from 'decimal.js';
 import { Complex } from '../src/numeric/complex.js';
 import { Random } from '../src/numeric/random.js';
+import { gamma, logGamma } from '../src/special/gamma.js';
+import { zeta } from '../src/special/zeta.js';
+import { dirichletBeta } from '../src/special/dirichletBeta.js';
+import { besselK } from '../src/special/besselK.js';
+import { gammaUpper } from '../src/special/incompleteGamma.js';
+import { eisensteinE } from '../src/modular/eisenstein.js';
+import { eta } from '../src/modular/eta.js';
+import { kleinJ } from '../src/modular/kleinJ.js';
+import { nonholomorphicE } from '../src/modular/nonholomorphic.js';
 import { BenchRow, mpmathVersion, printTable, timeMpmath, timeRow, Timing } from './harness.js';
 
 const PRECISIONS = [30, 50, 100];
@@ -15,6 +25,47 @@ function complexArgs(n: number, reLo: number, reHi: number, imLo: number, imHi: 
   return Array.from({ length: n }, () => [num(rng.uniform(reLo, reHi)), num(rng.uniform(imLo, imHi))]);
 }
 const cx = (a: [string, string]) => new Complex(a[0], a[1]);
+const re = (a: [string, string]) => new Decimal(a[0]);
+/** Pairs [complex, positive real] from two independent draws. */
+function withPositive(zs: [string, string][], lo: number, hi: number): [string, string][][] {
+  const xs = positive(zs.length, lo, hi);
+  return zs.map((z, i) => [z, xs[i]!]);
+}
+function positive(n: number, lo: number, hi: number): [string, string][] {
+  // log-uniform in [lo, hi]
+  return Array.from({ length: n }, () => [num(Math.exp(rng.uniform(Math.log(lo), Math.log(hi)))), '0']);
+}
+/** Points tau = x + iy with |x| <= 1/2 and y in [yLo, yHi]. */
+function taus(n: number, yLo: number, yHi: number): [string, string][] {
+  return complexArgs(n, -0.5, 0.5, yLo, yHi);
+}
+const HIGH: [number, number] = [0.87, 2];
+const LOW: [number, number] = [0.05, 0.3];
+const setName = (r: [number, number]) => `Im tau in [${r[0]}, ${r[1]}]`;
+
+function modularRows(): BenchRow[] {
+  const out: BenchRow[] = [];
+  for (const band of [HIGH, LOW]) {
+    const pts = () => taus(ARGS_PER_ROW, band[0], band[1]).map((t) => [t]);
+    out.push(
+      { label: 'E_4(tau)', set: setName(band), mpmath: 'E4', args: pts(), run: (a) => eisensteinE(4, cx(a[0]!)) },
+      { label: 'E_12(tau)', set: setName(band), mpmath: 'E12', args: pts(), run: (a) => eisensteinE(12, cx(a[0]!)) },
+      { label: 'eta(tau)', set: setName(band), mpmath: 'eta', args: pts(), run: (a) => eta(cx(a[0]!)) },
+      { label: 'j(tau)', set: setName(band), mpmath: 'j', args: pts(), run: (a) => kleinJ(cx(a[0]!)) },
+    );
+    for (const s of [['2.5', '0'], ['0.7', '3.1']] as [string, string][]) {
+      out.push({
+        label: `E(${s[1] === '0' ? s[0] : `${s[0]}+${s[1]}i`}, tau)`,
+        set: setName(band),
+        mpmath: 'Efourier',
+        // the mpmath side needs seconds per call near the axis: fewer points there
+        args: taus(band === LOW ? 3 : ARGS_PER_ROW, band[0], band[1]).map((t) => [s, t]),
+        run: (a) => nonholomorphicE(cx(a[0]!), cx(a[1]!)),
+      });
+    }
+  }
+  return out;
+}
 
 const rows: BenchRow[] = [
   {
@@ -29,6 +80,43 @@ const rows: BenchRow[] = [
     args: complexArgs(ARGS_PER_ROW, -20, 20, -20, 20).map((z) => [z]),
     run: (a) => cx(a[0]!).log(),
   },
+  {
+    label: 'Gamma(z)',
+    mpmath: 'gamma',
+    args: complexArgs(ARGS_PER_ROW, 0.5, 20, -30, 30).map((z) => [z]),
+    run: (a) => gamma(cx(a[0]!)),
+  },
+  {
+    label: 'logGamma(z)',
+    mpmath: 'loggamma',
+    args: complexArgs(ARGS_PER_ROW, -10, 20, -30, 30).map((z) => [z]),
+    run: (a) => logGamma(cx(a[0]!)),
+  },
+  {
+    label: 'zeta(s)',
+    mpmath: 'zeta',
+    args: complexArgs(ARGS_PER_ROW, -2, 4, -30, 30).map((z) => [z]),
+    run: (a) => zeta(cx(a[0]!)),
+  },
+  {
+    label: 'beta(s)',
+    mpmath: 'dirichletbeta',
+    args: complexArgs(ARGS_PER_ROW, 0, 5, -20, 20).map((z) => [z]),
+    run: (a) => dirichletBeta(cx(a[0]!)),
+  },
+  {
+    label: 'K_nu(x)',
+    mpmath: 'besselk',
+    args: withPositive(complexArgs(ARGS_PER_ROW, -3, 3, -10, 10), 0.05, 30),
+    run: (a) => besselK(cx(a[0]!), re(a[1]!)),
+  },
+  {
+    label: 'Gamma(a, x)',
+    mpmath: 'gammainc',
+    args: withPositive(complexArgs(ARGS_PER_ROW, -3, 6, -5, 5), 0.5, 40),
+    run: (a) => gammaUpper(cx(a[0]!), re(a[1]!)),
+  },
+  ...modularRows(),
 ];
 
 function main(): void {

@@ -27,7 +27,7 @@ import { Complex } from '../numeric/complex.js';
 import { pi } from '../numeric/constants.js';
 import { ModvetError } from '../numeric/errors.js';
 import { digits, withGuard } from '../numeric/precision.js';
-import { besselK } from '../special/besselK.js';
+import { besselKMultiples } from '../special/besselK.js';
 import { sigmaSieveComplex, powersUpTo } from '../special/divisors.js';
 import { gammaUpper } from '../special/incompleteGamma.js';
 import { xi } from '../special/zeta.js';
@@ -123,10 +123,12 @@ function fourierStar(s: Complex, tau: Complex, guard: number): Attempt {
   const sig = sigmaSieveComplex(s.scale(-2).add(Complex.ONE), N); // sigma_{1-2s}(n)
   const pw = powersUpTo(nu, N); // n^{s-1/2}
   const twoPi = pi().times(2);
+  // K_nu(2 pi n y) for all n at once: the quadrature nodes are shared across n
+  const ks = besselKMultiples(nu, twoPi.times(y), N);
   let sum = Complex.ZERO;
   let largest = new Decimal(0);
   for (let n = 1; n <= N; n++) {
-    const k = besselK(nu, twoPi.times(n).times(y));
+    const k = ks[n - 1]!;
     const c = Complex.of(twoPi.times(n).times(x)).cos();
     const t = pw[n]!.mul(sig[n]!).mul(k).mul(c);
     const ta = t.abs();
