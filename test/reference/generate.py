@@ -113,6 +113,23 @@ def build():
     for n in (2, 3, 4):
         funcs['jtheta%d' % n] = [{"args": [t], "value": out(mpmath.jtheta(n, 0, mpmath.exp(1j * mpmath.pi * cz(t))))}
                                  for t in taus if abs(mpf(t[0])) <= 1]
+    # Hard cases added after the first implementations (fixed values, no random draws, so
+    # the cases above are unchanged): far up the critical line, deep in Re s < 0, next to
+    # trivial zeros and poles, the Eisenstein range of Gamma(a, x), near-integer orders of K.
+    funcs['zeta'] += [{"args": [z], "value": out(mpmath.zeta(cz(z)))}
+                      for z in [["0.5", "1000"], ["-40.5", "3"], ["-2", "1e-12"], ["-0.000001", "20"]]]
+    funcs['dirichletbeta'] += [{"args": [z], "value": out(mpmath.dirichlet(cz(z), [0, 1, 0, -1]))}
+                               for z in [["-2.5", "0"], ["0.5", "6.0209489046975965"]]]
+    hard_g = [["-150.3", "2.5"], ["0.5", "1000000"], ["-3.9", "1e-30"], ["1.0000000000001", "0"], ["350.5", "0"]]
+    funcs['gamma'] += [{"args": [z], "value": out(mpmath.gamma(cz(z)))} for z in hard_g + [["-1000.25", "0"]]]
+    funcs['loggamma'] += [{"args": [z], "value": out(mpmath.loggamma(cz(z)))} for z in hard_g]
+    hard_ig = [[["0.5", "14.13"], "60"], [["2.5", "-3"], "95.5"], [["-0.3", "7"], "150"], [["-3", "1e-12"], "2"],
+               [["-15", "0"], "14"], [["-15", "0"], "16"], [["40", "0"], "0.3"], [["3", "30"], "5"]]
+    funcs['gammainc'] += [{"args": [a, [x, "0"]], "value": out(mpmath.gammainc(cz(a), mpf(x)))} for a, x in hard_ig]
+    hard_k = [[["2.000000000000001", "0"], "1.5"], [["1e-20", "0"], "0.7"], [["3", "1e-30"], "2"],
+              [["7.5", "0"], "0.05"], [["20.5", "0"], "3"], [["1.3", "0.4"], "200"], [["0", "0"], "1e-10"],
+              [["2", "0"], "1e-10"], [["0", "30"], "29.5"], [["0.5", "100"], "10"]]
+    funcs['besselk'] += [{"args": [nu, [x, "0"]], "value": out(mpmath.besselk(cz(nu), mpf(x)))} for nu, x in hard_k]
     return funcs
 
 
