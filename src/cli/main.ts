@@ -2,9 +2,12 @@
 // Entry point of the `modvet` command: wires process streams to the CLI function.
 import { run } from './program.js';
 
+const color = process.stdout.isTTY === true && process.env.NO_COLOR === undefined;
+
 run(process.argv.slice(2), {
   out: (s) => process.stdout.write(s),
   err: (s) => process.stderr.write(s),
+  color,
 }).then(
   (code) => {
     process.exitCode = code;

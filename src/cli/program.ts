@@ -2,34 +2,75 @@
  * The command line as a function: takes argv and output streams, returns an exit code.
  * Commander wiring only; the work lives in the stage folders.
  *
- * Exit codes: 0 success, 2 bad usage or bad input (a message, never a stack trace).
+ * Exit codes: 0 success (every claim got its expected verdict), 1 some claim did not,
+ * 2 bad usage or input that could not be read or parsed (a message, never a stack trace).
  */
-import { Command, CommanderError } from 'commander';
+import { Command, CommanderError, Option } from 'commander';
 import { ModvetError } from '../numeric/errors.js';
 import { checkDigits } from '../numeric/precision.js';
 import { demoLines } from './demo.js';
+import { CheckFlags, runCheck } from './check.js';
+import { runList } from './list.js';
+import { UsageError } from './options.js';
+import { VERSION } from './version.js';
+
+export { VERSION };
 
 export interface Streams {
   out: (s: string) => void;
   err: (s: string) => void;
+  /** Whether to colour stdout (a terminal, and NO_COLOR unset): decided by the caller. */
+  color?: boolean;
+  /** The folder paths are relative to (default: process.cwd()). */
+  cwd?: string;
 }
 
-export const VERSION = '0.1.0';
+const HELP_CONVENTIONS = `
+Conventions: tau = x + iy, q = e^{2 pi i tau}; theta functions use the nome e^{pi i tau};
+lap(f) = y^2 (d_x^2 + d_y^2), so lap(y^s) = s(s-1) y^s; Ens(s, tau) is the coset-normalised
+non-holomorphic Eisenstein series (constant term y^s + ...), Estar = xi(2s) Ens.
+Numerical agreement at random points is evidence, not proof.`;
 
 export async function run(argv: string[], io: Streams): Promise<number> {
   const program = new Command();
+  const cwd = io.cwd ?? process.cwd();
   let code = 0;
   program
     .name('modvet')
     .description('Numerical verification of identities between modular forms.')
     .version(VERSION)
     .exitOverride()
-    .configureOutput({ writeOut: io.out, writeErr: io.err });
+    .configureOutput({ writeOut: io.out, writeErr: io.err })
+    .addHelpText('after', HELP_CONVENTIONS);
+
+  program
+    .command('check')
+    .description('check the claims in .vet files (folders are searched recursively; default identities/)')
+    .argument('[paths...]', 'claim files or folders')
+    .option('-d, --digits <n>', 'significant digits to check (5..2000; default 30)')
+    .option('-n, --samples <n>', 'sample points per claim (default 16: 8 in F, 8 near the real axis)')
+    .option('-s, --seed <n>', 'seed of the random samples (default 1); the summary prints it')
+    .option('--ymin <y>', 'smallest Im tau sampled (default 0.02)')
+    .option('--only <pattern>', 'only claims whose name matches (substring, or * wildcards)')
+    .option('--json', 'print a JSON report (schema modvet-check/1) on stdout')
+    .option('--junit <file>', 'also write a JUnit XML report to <file>')
+    .option('-q, --quiet', 'print only the claims that did not get their expected verdict')
+    .action((paths: string[], flags: CheckFlags) => {
+      code = runCheck(paths, flags, io, cwd);
+    });
+
+  program
+    .command('list')
+    .description('list the claims in .vet files with their clauses')
+    .argument('[paths...]', 'claim files or folders (default identities/)')
+    .action((paths: string[]) => {
+      code = runList(paths, io, cwd);
+    });
 
   program
     .command('demo')
     .description('print constants and special-function values computed by the numeric layer')
-    .option('-d, --digits <n>', 'significant digits (5..2000)', '50')
+    .addOption(new Option('-d, --digits <n>', 'significant digits (5..2000)').default('50'))
     .action((opts: { digits: string }) => {
       const d = Number(opts.digits);
       checkDigits(d, '--digits');
@@ -42,7 +83,7 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     if (e instanceof CommanderError) {
       // help and version requests end here too, with exit code 0
       code = e.exitCode === 0 ? 0 : 2;
-    } else if (e instanceof ModvetError) {
+    } else if (e instanceof ModvetError || e instanceof UsageError) {
       io.err(`modvet: ${e.message}\n`);
       code = 2;
     } else {

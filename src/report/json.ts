@@ -1,0 +1,92 @@
+/**
+ * The JSON report (`modvet check --json`), schema "modvet-check/1". Stable: fields are only
+ * ever added. Contains no timings, so the same seed and inputs give byte-identical output.
+ *
+ * {
+ *   "schema": "modvet-check/1", "version": "0.1.0",
+ *   "settings": { "seed": 1, "digits": 30, "samples": 16, "ymin": 0.02 },
+ *   "claims": [ {
+ *     "file": "identities/x.vet", "line": 3, "name": "...", "source": "..." | null,
+ *     "equation": "LHS = RHS", "expected": "holds", "verdict": "holds", "ok": true,
+ *     "digits": 30, "requested_digits": 30, "samples": 16, "reason": null | "...",
+ *     "worst": null | { "tau": {"re","im"}, "group": null | {"matrix": [[a,b],[c,d]], "word": "S T"},
+ *                       "params": { "s": {"re","im"} }, "lhs": {"re","im"}, "rhs": {"re","im"},
+ *                       "residual": "1.2e-31", "precisions": [35, 45] } } ],
+ *   "errors": [ { "file": "...", "message": "..." } ],
+ *   "summary": { "claims": n, "holds": n, "refuted": n, "undecided": n, "error": n, "unexpected": n }
+ * }
+ * Numbers inside "worst" are decimal strings with 20 significant digits.
+ */
+import { ClaimResult } from '../check/run.js';
+import { toWord, wordToString } from '../groups/words.js';
+import { complexJson } from './describe.js';
+
+export interface RunSettings {
+  seed: number;
+  digits: number;
+  samples: number;
+  yMin: number;
+}
+
+export function jsonReport(
+  version: string,
+  settings: RunSettings,
+  results: ClaimResult[],
+  errors: { file: string; message: string }[],
+): string {
+  const count = (v: string) => results.filter((r) => r.verdict === v).length;
+  const claims = results.map((r) => {
+    const w = r.worst;
+    return {
+      file: r.claim.file,
+      line: r.claim.line,
+      name: r.claim.name,
+      source: r.claim.source ?? null,
+      equation: r.claim.text,
+      expected: r.claim.expect,
+      verdict: r.verdict,
+      ok: r.ok,
+      digits: r.digits,
+      requested_digits: r.requested,
+      samples: r.samples,
+      reason: r.reason ?? null,
+      worst:
+        w === undefined
+          ? null
+          : {
+              tau: complexJson(w.sample.tau),
+              group:
+                w.sample.gamma === undefined
+                  ? null
+                  : {
+                      matrix: [
+                        [w.sample.gamma.a.toString(), w.sample.gamma.b.toString()],
+                        [w.sample.gamma.c.toString(), w.sample.gamma.d.toString()],
+                      ],
+                      word: wordToString(toWord(w.sample.gamma)),
+                    },
+              params: Object.fromEntries([...w.sample.params].map(([k, v]) => [k, complexJson(v)])),
+              lhs: complexJson(w.lhs.value),
+              rhs: complexJson(w.rhs.value),
+              residual: w.assessment.residual.isZero() ? '0' : w.assessment.residual.toSD(3).toExponential(),
+              precisions: [w.p1, w.p2],
+            },
+    };
+  });
+  const doc = {
+    schema: 'modvet-check/1',
+    version,
+    settings: { seed: settings.seed, digits: settings.digits, samples: settings.samples, ymin: settings.yMin },
+    claims,
+    errors,
+    summary: {
+      claims: results.length,
+      holds: count('holds'),
+      refuted: count('refuted'),
+      undecided: count('undecided'),
+      error: count('error'),
+      unexpected: results.filter((r) => !r.ok).length,
+    },
+  };
+  return JSON.stringify(doc, null, 2) + '\n';
+}

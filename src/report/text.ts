@@ -1,0 +1,60 @@
+/**
+ * The terminal report: one block per claim, then a summary line with the counts per
+ * verdict and the seed that reproduces the run. Colour is decided by the caller.
+ */
+import { Chalk, ChalkInstance } from 'chalk';
+import { ClaimResult } from '../check/run.js';
+import { Verdict } from '../check/claim.js';
+import { showComplex, showSample } from './describe.js';
+
+export interface TextOptions {
+  color: boolean;
+  quiet: boolean;
+}
+
+function painter(color: boolean): ChalkInstance {
+  return new Chalk({ level: color ? 1 : 0 });
+}
+
+function paintVerdict(c: ChalkInstance, v: Verdict, ok: boolean): string {
+  const word = v.padEnd(9);
+  if (!ok) return c.red.bold(word);
+  return v === 'holds' ? c.green(word) : v === 'refuted' ? c.cyan(word) : c.yellow(word);
+}
+
+export function claimLines(r: ClaimResult, opts: TextOptions): string[] {
+  const c = painter(opts.color);
+  const where = `${r.claim.file}:${r.claim.line}`;
+  const head = `${paintVerdict(c, r.verdict, r.ok)} ${r.claim.name}  ${c.dim(where)}`;
+  const secs = (r.timeMs / 1000).toFixed(2);
+  const lines = [head];
+  const expected = r.ok ? '' : `  (expected ${r.claim.expect})`;
+  if (r.verdict === 'holds') {
+    lines.push(`          agrees to ${r.digits} digits at the worst of ${r.samples} samples, ${secs} s${expected}`);
+  } else if (r.verdict === 'refuted') {
+    const res = r.worst?.assessment.residual.toSD(3).toString() ?? '?';
+    lines.push(`          fails: relative residual ${res} at the worst of ${r.samples} samples, ${secs} s${expected}`);
+  } else {
+    lines.push(`          ${r.reason ?? 'no reason recorded'} (${r.samples} samples, ${secs} s)${expected}`);
+  }
+  const showWorst = r.worst !== undefined && (r.verdict === 'refuted' || (!r.ok && !opts.quiet));
+  if (showWorst && r.worst !== undefined) {
+    const w = r.worst;
+    lines.push(`          worst sample: ${showSample(w.sample, r.claim.group?.variable)}`);
+    lines.push(`            LHS = ${showComplex(w.lhs.value)}`);
+    lines.push(`            RHS = ${showComplex(w.rhs.value)}`);
+  }
+  return lines;
+}
+
+export function summaryLine(results: ClaimResult[], seed: number, parseFailures: number, color: boolean): string {
+  const c = painter(color);
+  const count = (v: Verdict) => results.filter((r) => r.verdict === v).length;
+  const bad = results.filter((r) => !r.ok).length;
+  const verdicts = `${count('holds')} hold, ${count('refuted')} refuted, ${count('undecided')} undecided, ${count('error')} error`;
+  const status =
+    bad === 0 && parseFailures === 0
+      ? c.green('all as expected')
+      : c.red(`${bad} not as expected${parseFailures > 0 ? `, ${parseFailures} file(s) could not be read or parsed` : ''}`);
+  return `${results.length} claims: ${verdicts}; ${status}. Seed ${seed} reproduces this run. Numerical agreement is evidence, not proof.`;
+}
