@@ -11,8 +11,12 @@ import type { Claim, Settings } from '../lang/ast.js';
 import { EvalError, evaluate, evaluateConstant, evaluateRegion, inRegion, NumericBound } from '../eval/evaluate.js';
 import { CheckableClaim, ParamSpec, Sample, SideValue } from './claim.js';
 
-/** Digits used to evaluate clause values (box corners, list values, fixed points). */
+/** Digits used to evaluate clause values (box corners, list values, region bounds). */
 const CLAUSE_DIGITS = 60;
+/** Fixed points (e.g. rho) are inputs at which zeros are tested: far more digits than checked. */
+function pointDigits(checked: number): number {
+  return Math.min(2000, 2 * checked + 40);
+}
 
 function where(e: EvalError): string {
   return `${e.span.file}:${e.span.line}:${e.span.column}`;
@@ -27,9 +31,9 @@ export function asModvetError(e: unknown): unknown {
   return e;
 }
 
-function constant(e: Parameters<typeof evaluateConstant>[0]): Complex {
+function constant(e: Parameters<typeof evaluateConstant>[0], digits = CLAUSE_DIGITS): Complex {
   try {
-    return withDigits(CLAUSE_DIGITS, () => evaluateConstant(e));
+    return withDigits(digits, () => evaluateConstant(e));
   } catch (err) {
     throw asModvetError(err);
   }
@@ -53,7 +57,7 @@ function paramSpecs(claim: Claim): ParamSpec[] {
         return { kind: 'box', name: p.name, reLo: Math.min(r1, r2), reHi: Math.max(r1, r2), imLo: Math.min(i1, i2), imHi: Math.max(i1, i2) };
       }
       case 'list':
-        return { kind: 'values', name: p.name, values: p.values.map(constant) };
+        return { kind: 'values', name: p.name, values: p.values.map((v) => constant(v)) };
       case 'intRange': {
         const values: Complex[] = [];
         for (let n = p.lo; n <= p.hi; n++) values.push(Complex.of(n));
@@ -113,7 +117,10 @@ export function toCheckable(claim: Claim, defaults: Settings): CheckableClaim {
   if (settings.yMin !== undefined) out.yMin = settings.yMin;
   if (claim.seed !== undefined) out.seed = claim.seed;
   if (claim.group !== undefined) out.group = { variable: claim.group.variable, group: claim.group.group };
-  if (claim.at !== undefined) out.points = claim.at.points.map(constant);
+  if (claim.at !== undefined) {
+    const d = pointDigits(settings.digits ?? 30);
+    out.points = claim.at.points.map((p) => constant(p, d));
+  }
   if (bounds !== undefined) {
     const b = bounds;
     out.region = (tau: Complex) => inRegion(b, tau);

@@ -45,6 +45,8 @@ export interface ClaimResult {
 }
 
 const ESCALATION_GUARD = 5;
+/** Replacement draws for a sample whose evaluation needed a point below y_min. */
+const REDRAWS = 12;
 
 function precisions(P: number, extra = 0): [number, number] {
   const p1 = Math.min(MAX_DIGITS, P + 5 + extra);
@@ -94,9 +96,20 @@ export function checkClaim(claim: CheckableClaim, opts: CheckOptions): ClaimResu
   }
   const reports: SampleReport[] = [];
   let undecidedReason: string | undefined;
-  for (const s of samples) {
+  const yMin = claim.yMin ?? opts.yMin;
+  for (let k = 0; k < samples.length; k++) {
+    let s = samples[k]!;
     try {
-      const r = measure(claim, s, P, claim.yMin ?? opts.yMin);
+      let r: SampleReport | undefined;
+      for (let attempt = 0; r === undefined; attempt++) {
+        try {
+          r = measure(claim, s, P, yMin);
+        } catch (e) {
+          // a transformed argument (e.g. -1/tau) fell below y_min: draw another point
+          if (!(e instanceof ModvetError) || e.code !== 'ymin' || attempt >= REDRAWS || claim.points !== undefined) throw e;
+          s = drawSamples(claim, opts, `redraw ${attempt}`)[k]!;
+        }
+      }
       reports.push(r);
       if (r.assessment.outcome === 'undecided') undecidedReason ??= r.assessment.reason;
     } catch (e) {

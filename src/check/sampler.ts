@@ -57,20 +57,28 @@ function listCombinations(params: ParamSpec[]): Map<string, Complex>[] {
 
 function drawTau(rng: Random, image: boolean, yMin: number, region?: (t: Complex) => boolean): Complex {
   for (let i = 0; i < REGION_ATTEMPTS; i++) {
+    // with a region, both kinds of point are tried: the region may exclude F or the strip
+    const asImage = region === undefined ? image : i % 2 === (image ? 0 : 1);
     let tau = randomInFundamental(rng);
-    if (image) {
+    if (asImage) {
       const g = randomElement(SL2Z, rng, tau, { yMin: 4 * yMin });
       tau = g.act(tau);
-      tau = Complex.of(tau.re.toSD(15), tau.im.toSD(15));
+      // translate into |x| <= 1/2: the height is what matters, and images like -1/tau
+      // stay inside the sampled strip
+      const shift = tau.re.round();
+      tau = Complex.of(tau.re.minus(shift).toSD(15), tau.im.toSD(15));
     }
     if (region === undefined || region(tau)) return tau;
   }
   throw new ModvetError('domain', 'sample', `no point found in the claim's region after ${REGION_ATTEMPTS} draws`);
 }
 
-/** The samples of a claim, deterministic in (seed, file, name). */
-export function drawSamples(claim: CheckableClaim, opts: SamplingOptions): Sample[] {
-  const rng = new Random(claim.seed ?? opts.seed).fork(`${claim.file}\u0000${claim.name}`);
+/**
+ * The samples of a claim, deterministic in (seed, file, name, salt). A non-empty salt gives
+ * an independent set, from which the checker takes replacements for unusable samples.
+ */
+export function drawSamples(claim: CheckableClaim, opts: SamplingOptions, salt = ''): Sample[] {
+  const rng = new Random(claim.seed ?? opts.seed).fork(`${claim.file}\u0000${claim.name}${salt === '' ? '' : `\u0000${salt}`}`);
   const n = claim.samples ?? opts.samples;
   const yMin = claim.yMin ?? opts.yMin;
   const out: Sample[] = [];

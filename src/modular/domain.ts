@@ -9,12 +9,15 @@ import { ModvetError } from '../numeric/errors.js';
 
 export const DEFAULT_Y_MIN = 0.02;
 
-/** Throws a typed error naming the function, the argument and the limit. */
+/**
+ * Throws a typed error naming the function, the argument and the limit: 'domain' for
+ * Im tau <= 0, 'ymin' for 0 < Im tau < yMin (the checker draws another point then).
+ */
 export function checkTau(tau: Complex, who: string, yMin: number = DEFAULT_Y_MIN): void {
   if (!tau.im.isPositive() || tau.im.isZero()) {
     throw new ModvetError('domain', who, `Im tau = ${tau.im} must be positive (tau = ${tau})`);
   }
   if (tau.im.lt(yMin)) {
-    throw new ModvetError('domain', who, `Im tau = ${tau.im} is below y_min = ${yMin} (tau = ${tau}); raise --ymin or move the point`);
+    throw new ModvetError('ymin', who, `Im tau = ${tau.im} is below y_min = ${yMin} (tau = ${tau}); raise --ymin or move the point`);
   }
 }

@@ -8,6 +8,7 @@
 /** The closed set of numeric failure kinds. */
 export type NumericErrorCode =
   | 'domain' // argument outside the function's domain (x <= 0 for K_nu, ...)
+  | 'ymin' // Im tau below the configured y_min (valid mathematically, but too costly to sum)
   | 'pole' // argument at a pole (Gamma at 0, -1, ...; zeta at 1)
   | 'precision' // requested precision outside [MIN_DIGITS, MAX_DIGITS]
   | 'convergence' // a series or quadrature did not reach the requested accuracy
