@@ -11,6 +11,7 @@ import { checkDigits } from '../numeric/precision.js';
 import { demoLines } from './demo.js';
 import { CheckFlags, runCheck } from './check.js';
 import { runList } from './list.js';
+import { EvalFlags, runEval } from './eval.js';
 import { UsageError } from './options.js';
 import { VERSION } from './version.js';
 
@@ -65,6 +66,18 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     .argument('[paths...]', 'claim files or folders (default identities/)')
     .action((paths: string[]) => {
       code = runList(paths, io, cwd);
+    });
+
+  program
+    .command('eval')
+    .description('evaluate one expression, correctly rounded, e.g. eval "E(4, tau)^2" --at "tau=0.1+1.2i"')
+    .argument('<expression>', 'an expression of the claim language')
+    .option('--at <name=value>', 'a value for tau or a parameter (repeatable)', (v: string, prev: string[] = []) => [...prev, v])
+    .option('-d, --digits <n>', 'significant digits (5..2000; default 30)')
+    .option('--ymin <y>', 'smallest Im tau the built-ins accept (default 0.02)')
+    .option('--json', 'print {"re": "...", "im": "..."}')
+    .action((expression: string, flags: EvalFlags) => {
+      code = runEval(expression, flags, io);
     });
 
   program

@@ -1,0 +1,135 @@
+/**
+ * `modvet eval "<expression>" --at "tau=0.1+1.2i" --at "s=2.5" [--digits N] [--json]`:
+ * one value, correctly rounded to N significant digits.
+ *
+ * The expression and the --at values are read by the claim language's own parser (as a
+ * one-claim source: the values become fixed points and one-value lists), so the names and
+ * the error messages are those of .vet files. Rounding: the value is computed at N + 10
+ * and N + 25 digits; both are rounded to N significant digits of |value| (a part smaller
+ * than the last digit becomes 0); when the two roundings differ, the precision is raised
+ * until they agree, and printed only then.
+ */
+import { Decimal } from 'decimal.js';
+import { Complex } from '../numeric/complex.js';
+import { ModvetError } from '../numeric/errors.js';
+import { MAX_DIGITS, withDigits } from '../numeric/precision.js';
+import { parseSource } from '../lang/parser.js';
+import { renderDiagnostic, type Diagnostic } from '../lang/diagnostics.js';
+import type { Expr } from '../lang/ast.js';
+import { evaluate, evaluateConstant } from '../eval/evaluate.js';
+import { asModvetError } from '../check/fromAst.js';
+import { digitsOption, UsageError } from './options.js';
+import type { Streams } from './program.js';
+
+export interface EvalFlags {
+  at?: string[];
+  digits?: string;
+  json?: boolean;
+  ymin?: string;
+}
+
+const NAME = /^[A-Za-z][A-Za-z0-9_]*$/;
+
+function usesTau(e: Expr): boolean {
+  switch (e.kind) {
+    case 'tau':
+      return true;
+    case 'tauPart':
+      return usesTau(e.arg);
+    case 'neg':
+      return usesTau(e.arg);
+    case 'binary':
+      return usesTau(e.left) || usesTau(e.right);
+    case 'call':
+      return e.args.some(usesTau);
+    case 'letCall':
+      return usesTau(e.body);
+    case 'moebius':
+      return true;
+    default:
+      return false;
+  }
+}
+
+/** Rounds z to N significant digits of |z|; parts below the last digit become 0. */
+export function roundComplex(z: Complex, N: number): Complex {
+  if (z.isZero()) return Complex.ZERO;
+  return withDigits(Math.min(MAX_DIGITS, N + 20), () => {
+    const e = z.abs().e; // floor(log10 |z|)
+    const places = N - 1 - e;
+    const r = (d: Decimal) => (places >= 0 ? d.toDecimalPlaces(places) : d.toNearest(new Decimal(10).pow(-places)));
+    return new Complex(r(z.re), r(z.im));
+  });
+}
+
+export function formatComplex(z: Complex): string {
+  const im = z.im;
+  return `${z.re.toString()} ${im.isNegative() ? '-' : '+'} ${im.abs().toString()} i`;
+}
+
+export function runEval(expression: string, flags: EvalFlags, io: Streams): number {
+  const N = flags.digits !== undefined ? digitsOption(flags.digits) : 30;
+  const lines = ['claim "eval"'];
+  let tauLine: string | null = null;
+  const names = new Set<string>();
+  for (const a of flags.at ?? []) {
+    const eq = a.indexOf('=');
+    const name = eq < 0 ? '' : a.slice(0, eq).trim();
+    const value = eq < 0 ? '' : a.slice(eq + 1).trim();
+    if (!NAME.test(name) || value === '') throw new UsageError(`--at ${a}: expected name=value, e.g. --at "tau=0.1+1.2i"`);
+    if (names.has(name)) throw new UsageError(`--at ${a}: ${name} is given twice`);
+    names.add(name);
+    if (name === 'tau') tauLine = `  at tau in {${value}}`;
+    else lines.push(`  for ${name} in {${value}}`);
+  }
+  if (tauLine !== null) lines.push(tauLine);
+  const prefix = lines.join('\n') + '\n  ';
+  const text = `${prefix}${expression.replace(/\n/g, ' ')} = 0\n`;
+  const { ast, diagnostics } = parseSource(text, '<eval>');
+  if (diagnostics.length > 0) {
+    for (const d of diagnostics) io.err(renderForUser(d, text, prefix.length, expression) + '\n');
+    return 2;
+  }
+  const claim = ast.claims[0];
+  if (claim === undefined) throw new UsageError('nothing to evaluate');
+  if (usesTau(claim.lhs) && claim.at === undefined) {
+    throw new UsageError('the expression uses tau: give a point, e.g. --at "tau=0.1+1.2i"');
+  }
+  const yMin = flags.ymin !== undefined ? Number(flags.ymin) : undefined;
+  const at = (P: number): Complex =>
+    withDigits(P, () => {
+      const params = new Map<string, Complex>();
+      for (const p of claim.params) if (p.kind === 'list') params.set(p.name, evaluateConstant(p.values[0]!));
+      const tau = claim.at !== undefined ? evaluateConstant(claim.at.points[0]!) : Complex.I;
+      try {
+        return evaluate(claim.lhs, { tau, params, ...(yMin !== undefined ? { yMin } : {}) }).value;
+      } catch (e) {
+        throw asModvetError(e);
+      }
+    });
+  for (let extra = 10; ; extra *= 2) {
+    const p1 = Math.min(MAX_DIGITS, N + extra);
+    const p2 = Math.min(MAX_DIGITS, N + extra + 15);
+    const a = roundComplex(at(p1), N);
+    const b = roundComplex(at(p2), N);
+    if (a.equals(b)) {
+      io.err(`note: evaluated at ${p1} and ${p2} digits; both round to the value below\n`);
+      io.out(flags.json ? JSON.stringify({ re: a.re.toString(), im: a.im.toString() }) + '\n' : formatComplex(a) + '\n');
+      return 0;
+    }
+    if (p1 >= MAX_DIGITS) {
+      throw new ModvetError('precision', 'eval', `the value could not be rounded to ${N} digits within ${MAX_DIGITS} digits of working precision`);
+    }
+  }
+}
+
+/** Diagnostics inside the expression are shown against the expression as the user typed it. */
+function renderForUser(d: Diagnostic, text: string, offset: number, expression: string): string {
+  if (d.span.start >= offset && d.span.start <= offset + expression.length) {
+    const start = d.span.start - offset;
+    const end = Math.min(expression.length, Math.max(start, d.span.end - offset));
+    const span = { file: '<expression>', start, end, line: 1, column: start + 1 };
+    return renderDiagnostic({ ...d, span }, expression);
+  }
+  return renderDiagnostic(d, text);
+}
