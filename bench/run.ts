@@ -14,6 +14,7 @@ import { eisensteinE } from '../src/modular/eisenstein.js';
 import { eta } from '../src/modular/eta.js';
 import { kleinJ } from '../src/modular/kleinJ.js';
 import { nonholomorphicE } from '../src/modular/nonholomorphic.js';
+import { run } from '../src/cli/program.js';
 import { BenchRow, mpmathVersion, printTable, timeMpmath, timeRow, Timing } from './harness.js';
 
 const PRECISIONS = [30, 50, 100];
@@ -119,6 +120,20 @@ const rows: BenchRow[] = [
   ...modularRows(),
 ];
 
+/** The whole shipped library at the default settings (30 digits, 16 samples), in-process. */
+async function libraryTiming(): Promise<void> {
+  let out = '';
+  const t0 = performance.now();
+  const code = await run(['check', 'identities', '--json'], { out: (x) => (out += x), err: () => {} });
+  const secs = (performance.now() - t0) / 1000;
+  const doc = JSON.parse(out) as { summary: { claims: number; unexpected: number } };
+  const n = doc.summary.claims;
+  console.log(
+    `\nmodvet check identities/ (30 digits, 16 samples, seed 1): ${n} claims in ${secs.toFixed(1)} s, ` +
+      `${(n / secs).toFixed(1)} claims per second; exit code ${code}, ${doc.summary.unexpected} not as expected`,
+  );
+}
+
 function main(): void {
   const version = mpmathVersion();
   console.log(`modvet bench: median us per evaluation over ${ARGS_PER_ROW} seeded arguments per row`);
@@ -139,4 +154,6 @@ function main(): void {
   printTable(ts);
 }
 
-main();
+// `npm run bench -- --library` times only the library check
+if (!process.argv.includes('--library')) main();
+await libraryTiming();
