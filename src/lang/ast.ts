@@ -1,0 +1,230 @@
+/**
+ * The resolved AST of a claim file: what parseSource returns and the evaluator reads.
+ *
+ * Public API (stable; src/check, src/report and src/cli build on it):
+ *   parseSource(text, file): { ast: FileAst; diagnostics: Diagnostic[] }     (parser.ts)
+ *   renderDiagnostic(d, text): string                                       (diagnostics.ts)
+ *   knownNames(): NameInfo[]                                                (names.ts)
+ *   evaluate(expr, env), evaluateConstant(expr), evaluateConstantWithError(expr),
+ *   evaluateRegion(region), inRegion(bounds, tau), EvalError                (../eval/evaluate.ts)
+ *
+ * Conventions:
+ * - Every node has `kind` and `span` (span.ts). Names are resolved: an Expr never holds an
+ *   unknown identifier, and let macros are already expanded (a `letCall` node keeps the
+ *   call for reports and error traces; its `body` is the expansion, which the evaluator
+ *   reads). Expansions share argument subtrees (a DAG, not always a tree): walk with a
+ *   memo when the size matters.
+ * - `x`, `y`, `taubar`, `q` are parts of the tau in scope: in a claim the sampled tau; in a
+ *   let with a parameter named `tau`, that parameter. So `tauPart.arg` is the tau they
+ *   belong to (usually a `tau` node).
+ * - Numbers keep their literal text; decimal.js parses it exactly at evaluation time.
+ * - Clause values (box corners, list elements, fixed points, region bounds) are constant
+ *   expressions: no tau, parameters or group. Evaluate them with evaluateConstant.
+ *
+ * Extension point for the next stage (operators lap, dtau, dtaubar, qd, Maass raising and
+ * lowering, Serre derivative; sum, prod, limit): add a node kind here, its name and
+ * argument shape to names.ts (it is listed there in PLANNED and diagnosed 'not-implemented'
+ * until then), its resolution rule in resolve.ts, and a case in evaluate.ts, which can
+ * re-enter `evaluate` with another tau or extra parameter values (EvalEnv is plain data).
+ */
+import type { Group } from '../groups/subgroups.js';
+import type { Span } from './span.js';
+
+export type { Span } from './span.js';
+
+// ---------------------------------------------------------------------------
+// Expressions
+
+export type ConstantName = 'i' | 'pi' | 'euler' | 'rho';
+export type TauPartName = 'x' | 'y' | 'taubar' | 'q';
+export type GroupEntryName = 'a' | 'b' | 'c' | 'd';
+export type BinaryOp = '+' | '-' | '*' | '/' | '^';
+
+/** Built-in functions; arities and summaries in names.ts. */
+export type BuiltinName =
+  // elementary, principal branches
+  | 'exp' | 'log' | 'sqrt' | 'abs' | 're' | 'im' | 'conj' | 'arg' | 'sin' | 'cos' | 'sinh' | 'cosh'
+  // number theory and special functions
+  | 'sigma' | 'bernoulli' | 'zeta' | 'xi' | 'Gamma' | 'beta' | 'K'
+  // modular
+  | 'E' | 'G' | 'E2star' | 'eta' | 'Delta' | 'j' | 'theta2' | 'theta3' | 'theta4' | 'Ens' | 'Estar';
+
+export interface NumberLit {
+  kind: 'number';
+  /** The literal without the imaginary suffix, e.g. '1e-3', '0.5'. */
+  text: string;
+  /** `4i`, `0.5i`: the value is text * i. */
+  imaginary: boolean;
+  span: Span;
+}
+export interface ConstantRef {
+  kind: 'constant';
+  name: ConstantName;
+  span: Span;
+}
+/** The sampled (or fixed) point tau of the claim. */
+export interface TauRef {
+  kind: 'tau';
+  span: Span;
+}
+/** x = Re t, y = Im t, taubar = conj t, q = exp(2 pi i t), t = arg. */
+export interface TauPart {
+  kind: 'tauPart';
+  part: TauPartName;
+  arg: Expr;
+  span: Span;
+}
+/** A claim parameter (for s in ..., for k in {...}); its value comes from EvalEnv.params. */
+export interface ParamRef {
+  kind: 'param';
+  name: string;
+  span: Span;
+}
+/** An entry of the claim's group element. */
+export interface GroupEntry {
+  kind: 'groupEntry';
+  entry: GroupEntryName;
+  span: Span;
+}
+/** g(arg): the Moebius action (a arg + b)/(c arg + d) of the claim's group element `group`. */
+export interface Moebius {
+  kind: 'moebius';
+  group: string;
+  arg: Expr;
+  span: Span;
+}
+export interface Neg {
+  kind: 'neg';
+  arg: Expr;
+  span: Span;
+}
+export interface Binary {
+  kind: 'binary';
+  op: BinaryOp;
+  left: Expr;
+  right: Expr;
+  span: Span;
+}
+export interface Call {
+  kind: 'call';
+  fn: BuiltinName;
+  args: Expr[];
+  /** The span of the function name alone. */
+  nameSpan: Span;
+  span: Span;
+}
+/** A use of a let macro: `body` is its expansion with the arguments substituted. */
+export interface LetCall {
+  kind: 'letCall';
+  name: string;
+  args: Expr[];
+  body: Expr;
+  span: Span;
+}
+
+export type Expr =
+  | NumberLit
+  | ConstantRef
+  | TauRef
+  | TauPart
+  | ParamRef
+  | GroupEntry
+  | Moebius
+  | Neg
+  | Binary
+  | Call
+  | LetCall;
+
+// ---------------------------------------------------------------------------
+// Clauses
+
+/** for g in SL2Z / Gamma0(N) / Gamma1(N) / Gamma(N): binds g (any name) and a, b, c, d. */
+export interface GroupClause {
+  kind: 'group';
+  variable: string;
+  group: Group;
+  span: Span;
+}
+
+/**
+ * Parameter clauses, in source order. 'interval' and 'box' draw a random value per sample;
+ * 'list' and 'intRange' are checked value by value (the checker takes the product of all
+ * such clauses). Values are constant expressions except the integer range bounds.
+ */
+export type ParamClause =
+  | { kind: 'interval'; name: string; lo: Expr; hi: Expr; span: Span }
+  | { kind: 'box'; name: string; corner1: Expr; corner2: Expr; span: Span }
+  | { kind: 'list'; name: string; values: Expr[]; span: Span }
+  | { kind: 'intRange'; name: string; lo: number; hi: number; span: Span };
+
+/** at tau in {...}: fixed points used instead of random ones. */
+export interface FixedPoints {
+  points: Expr[];
+  span: Span;
+}
+
+/** What a region bound restricts: x, y, |x|, |tau|. */
+export type RegionQuantity = 'x' | 'y' | 'absx' | 'abstau';
+export type Comparison = '<' | '<=' | '>' | '>=';
+
+/** quantity op bound, e.g. y >= 1/2 (a chain lo <= x <= hi becomes two bounds). */
+export interface RegionBound {
+  quantity: RegionQuantity;
+  op: Comparison;
+  bound: Expr;
+  span: Span;
+}
+/** The conjunction of its bounds. */
+export interface Region {
+  bounds: RegionBound[];
+  span: Span;
+}
+
+/** File-wide defaults (`use` lines) or per-claim settings; absent fields are not set. */
+export interface Settings {
+  digits?: number;
+  samples?: number;
+  seed?: number;
+  yMin?: number;
+}
+
+export type Expectation = 'holds' | 'refuted';
+
+export interface Claim {
+  name: string;
+  /** The header line `claim "name"`. */
+  span: Span;
+  source?: string;
+  expect: Expectation;
+  group?: GroupClause;
+  params: ParamClause[];
+  at?: FixedPoints;
+  region?: Region;
+  digits?: number;
+  samples?: number;
+  seed?: number;
+  yMin?: number;
+  lhs: Expr;
+  rhs: Expr;
+  /** The equation as written, comments dropped and line breaks folded to one space. */
+  text: string;
+  lhsText: string;
+  rhsText: string;
+  equationSpan: Span;
+}
+
+export interface LetInfo {
+  name: string;
+  params: string[];
+  /** The body as written (comments dropped, line breaks folded). */
+  text: string;
+  span: Span;
+}
+
+export interface FileAst {
+  file: string;
+  defaults: Settings;
+  lets: LetInfo[];
+  /** The claims that parsed and resolved without error, in file order. */
+  claims: Claim[];
+}
