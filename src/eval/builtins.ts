@@ -29,7 +29,7 @@ import { Complex } from '../numeric/complex.js';
 import { ModvetError } from '../numeric/errors.js';
 import { withGuard } from '../numeric/precision.js';
 import { besselK } from '../special/besselK.js';
-import { bernoulli } from '../special/bernoulli.js';
+import { bernoulli, MAX_USER_BERNOULLI } from '../special/bernoulli.js';
 import { dirichletBeta } from '../special/dirichletBeta.js';
 import { sigma, sigmaComplex } from '../special/divisors.js';
 import { gamma, logAbsGammaDouble } from '../special/gamma.js';
@@ -217,7 +217,11 @@ const SPECS: Readonly<Record<Exclude<BuiltinName, ElementaryName>, Spec>> = {
   bernoulli: {
     args: ['int'],
     f: ([n]) => {
-      const B = bernoulli(integerValue(n!, 'bernoulli', 'n'));
+      const idx = integerValue(n!, 'bernoulli', 'n');
+      if (idx > MAX_USER_BERNOULLI) {
+        throw new ModvetError('domain', 'bernoulli', `n = ${idx} is above the supported ${MAX_USER_BERNOULLI}`);
+      }
+      const B = bernoulli(idx);
       return new Complex(new Decimal(B.num.toString()).div(B.den.toString()), 0);
     },
     exact: (v) => v.re.isInteger(),

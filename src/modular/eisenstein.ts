@@ -49,10 +49,14 @@ import {
 
 const LOG2E = Math.LOG2E;
 
+/** The largest weight accepted: sigma_{k-1}(n) and the term count grow with k. */
+export const MAX_WEIGHT = 200;
+
 function checkWeight(k: number, who: string, min: number): void {
   if (!Number.isSafeInteger(k) || k < min || k % 2 !== 0) {
     throw new ModvetError('domain', who, `k = ${k} must be an even integer >= ${min}`);
   }
+  if (k > MAX_WEIGHT) throw new ModvetError('domain', who, `k = ${k} is above the supported weight ${MAX_WEIGHT}`);
 }
 
 function gcd(a: bigint, b: bigint): bigint {

@@ -19,6 +19,9 @@ function gcd(a: bigint, b: bigint): bigint {
   return a;
 }
 
+/** The largest n offered to users (bernoulli(n) in claims): B_4000 takes about 4 s. */
+export const MAX_USER_BERNOULLI = 4000;
+
 let cache: Rational[] = []; // cache[k] = B_{2k}
 
 function extend(kmax: number): void {

@@ -24,12 +24,14 @@
 import { Decimal } from 'decimal.js';
 import { Complex } from '../numeric/complex.js';
 import * as fx from '../numeric/fixed.js';
+import { ModvetError } from '../numeric/errors.js';
 import { type FxC, cexpSplit, cmul, csqr, fromComplex, toComplex } from '../numeric/fixedComplex.js';
 import { bitsFor } from '../numeric/precision.js';
 import { logGammaFx } from './gamma.js';
 import {
   type Scaled,
   type TailShape,
+  MAX_IM_S,
   cmulWide,
   estimateLog2,
   lnPiFx,
@@ -178,6 +180,9 @@ function betaReflectedFx(s: Complex, bits: number): Scaled {
 
 /** The Dirichlet beta function at the current precision (see the module header). */
 export function dirichletBeta(s: Complex): Complex {
+  if (s.im.abs().gt(MAX_IM_S)) {
+    throw new ModvetError('domain', 'beta', `|Im s| = ${s.im.abs().toSD(6)} is above the supported ${MAX_IM_S}`);
+  }
   if (s.im.isZero() && s.re.isInteger() && s.re.lte(0) && s.re.gte(-EXACT_NEGATIVE_MAX)) {
     // beta(-n) = E_n / 2 (DLMF 24.2.6 generating function; E_n = 0 for odd n)
     const n = -s.re.toNumber();

@@ -281,3 +281,25 @@ describe('clause values', () => {
     expect(inRegion(b, Complex.of('0', '1'))).toBe(false);
   });
 });
+
+describe('arguments beyond the supported ranges are typed errors, not hangs', () => {
+  // common practice: every built-in bounds its own cost
+  it('zeta far up the critical line, a huge weight, a huge Bernoulli index', async () => {
+    const { parseSource } = await import('../../src/lang/parser.js');
+    const { evaluate: ev, EvalError: EE } = await import('../../src/eval/evaluate.js');
+    const { withDigits: wd } = await import('../../src/numeric/precision.js');
+    const { Complex: C } = await import('../../src/numeric/complex.js');
+    for (const text of ['zeta(1e10*i)', 'E(100000, tau)', 'bernoulli(100000)', 'beta(0.5 + 1e9*i)']) {
+      const { ast, diagnostics } = parseSource(`claim "limit"\n  ${text} = 0\n`, 'limits.vet');
+      expect(diagnostics).toEqual([]);
+      const claim = ast.claims[0]!;
+      let code: string | undefined;
+      try {
+        wd(20, () => ev(claim.lhs, { tau: C.I }));
+      } catch (e) {
+        code = e instanceof EE ? e.code : 'other';
+      }
+      expect(code, text).toBe('domain');
+    }
+  });
+});
