@@ -82,7 +82,8 @@ interface Cached {
   F: number;
   v: bigint;
 }
-function cachedConstant(compute: (F: number) => bigint): (F: number) => bigint {
+/** A constant computed once at the highest precision asked for, then shifted down. */
+export function cachedConstant(compute: (F: number) => bigint): (F: number) => bigint {
   let c: Cached = { F: -1, v: 0n };
   return (F: number) => {
     if (F > c.F) {

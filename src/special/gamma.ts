@@ -369,20 +369,7 @@ export function logFx(a: bigint, F: number): bigint {
 // ---------------------------------------------------------------------------
 // Cached constants and small complex kernels
 
-interface Cached {
-  F: number;
-  v: bigint;
-}
-function cached(compute: (F: number) => bigint): (F: number) => bigint {
-  let c: Cached = { F: -1, v: 0n };
-  return (F: number) => {
-    if (F > c.F) {
-      const W = Math.max(F, 2 * c.F, 256) + 32;
-      c = { F: W, v: compute(W + 32) >> 32n };
-    }
-    return c.v >> BigInt(c.F - F);
-  };
-}
+const cached = fx.cachedConstant;
 /** log(2 pi) */
 const log2Pi = cached((F) => fx.log(2n * fx.pi(F), F));
 /** log(pi) */

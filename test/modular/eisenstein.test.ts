@@ -4,7 +4,6 @@ import { describe, expect, it } from 'vitest';
 import { Decimal } from 'decimal.js';
 import { Complex } from '../../src/numeric/complex.js';
 import { pi } from '../../src/numeric/constants.js';
-import { ModvetError } from '../../src/numeric/errors.js';
 import { withDigits } from '../../src/numeric/precision.js';
 import { Random } from '../../src/numeric/random.js';
 import { gamma } from '../../src/special/gamma.js';
@@ -12,19 +11,11 @@ import { Mat2 } from '../../src/groups/matrix.js';
 import { randomElement, randomInFundamental } from '../../src/groups/sample.js';
 import { e2star, eisensteinCoefficients, eisensteinE, eisensteinG } from '../../src/modular/eisenstein.js';
 import { ulpError } from '../helpers/reference.js';
+import { errorCode } from '../helpers/errors.js';
 
 /** |a - b| / |b| at 40 extra digits. */
 function relErr(a: Complex, b: Complex, P: number): number {
   return withDigits(P + 40, () => a.sub(b).abs().div(b.abs()).toNumber());
-}
-function errorCode(f: () => unknown): string | undefined {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof ModvetError) return e.code;
-    throw e;
-  }
-  return undefined;
 }
 /** rho = e^{2 pi i/3} = -1/2 + i sqrt(3)/2, to d digits. */
 function rho(d: number): Complex {

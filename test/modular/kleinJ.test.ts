@@ -3,22 +3,13 @@
 import { describe, expect, it } from 'vitest';
 import { Decimal } from 'decimal.js';
 import { Complex } from '../../src/numeric/complex.js';
-import { ModvetError } from '../../src/numeric/errors.js';
 import { withDigits } from '../../src/numeric/precision.js';
 import { Random } from '../../src/numeric/random.js';
 import { randomElement, randomInFundamental } from '../../src/groups/sample.js';
 import { kleinJ, kleinJCoefficients } from '../../src/modular/kleinJ.js';
 import { referenceCases, referenceLibrary, ulpError } from '../helpers/reference.js';
+import { errorCode } from '../helpers/errors.js';
 
-function errorCode(f: () => unknown): string | undefined {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof ModvetError) return e.code;
-    throw e;
-  }
-  return undefined;
-}
 
 describe(`j against ${referenceLibrary} (test/reference/values.json, 1728 mpmath.kleinj)`, () => {
   for (const P of [30, 50, 100]) {

@@ -4,7 +4,6 @@
 import { describe, expect, it } from 'vitest';
 import { Complex } from '../../src/numeric/complex.js';
 import { pi } from '../../src/numeric/constants.js';
-import { ModvetError } from '../../src/numeric/errors.js';
 import { withDigits } from '../../src/numeric/precision.js';
 import { Random } from '../../src/numeric/random.js';
 import { gamma } from '../../src/special/gamma.js';
@@ -12,18 +11,10 @@ import { eisensteinE } from '../../src/modular/eisenstein.js';
 import { eta } from '../../src/modular/eta.js';
 import { theta2, theta3, theta4 } from '../../src/modular/theta.js';
 import { referenceCases, referenceLibrary, ulpError } from '../helpers/reference.js';
+import { errorCode } from '../helpers/errors.js';
 
 function relErr(a: Complex, b: Complex, P: number): number {
   return withDigits(P + 40, () => a.sub(b).abs().div(b.abs()).toNumber());
-}
-function errorCode(f: () => unknown): string | undefined {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof ModvetError) return e.code;
-    throw e;
-  }
-  return undefined;
 }
 const thetas: [string, (t: Complex) => Complex][] = [
   ['jtheta2', theta2],
