@@ -4,6 +4,14 @@ import { run } from './program.js';
 
 const color = process.stdout.isTTY === true && process.env.NO_COLOR === undefined;
 
+// a reader that stops early (`modvet check | head`) closes the pipe: end quietly
+for (const stream of [process.stdout, process.stderr]) {
+  stream.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+    throw e;
+  });
+}
+
 run(process.argv.slice(2), {
   out: (s) => process.stdout.write(s),
   err: (s) => process.stderr.write(s),
