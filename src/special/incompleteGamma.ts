@@ -63,63 +63,93 @@ export interface SplitFx {
  * Infinity when more than `cap` steps would be needed.
  */
 export function cfSteps(ar: number, ai: number, x: number, bits: number, cap: number): number {
-  // A_{-1} = 1, A_0 = b_0; B_{-1} = 0, B_0 = 1
-  let A2r = 1;
-  let A2i = 0;
-  let A1r = x + 1 - ar;
-  let A1i = -ai;
-  let B2r = 0;
-  let B2i = 0;
-  let B1r = 1;
-  let B1i = 0;
+  const w = new WallisDouble(ar, ai, x);
   let lc = 0; // log2 |c_1 ... c_k| (up to the factors still in cprod)
   let cprod = 1; // |c_j|^2 since the last logarithm
-  let scale = 0; // A, B are stored times 2^-scale
   let prevRel = Infinity;
   for (let k = 1; k <= cap; k++) {
-    const br = x + 2 * k + 1 - ar;
-    const bi = -ai;
-    const cr = -k * (k - ar);
-    const ci = k * ai;
-    const c2 = cr * cr + ci * ci;
+    const c2 = w.partialNumerator2(k);
     if (c2 === 0) return k; // a = k exactly: the fraction terminates
     cprod *= c2;
-    const Ar = br * A1r - bi * A1i + cr * A2r - ci * A2i;
-    const Ai = br * A1i + bi * A1r + cr * A2i + ci * A2r;
-    const Br = br * B1r - bi * B1i + cr * B2r - ci * B2i;
-    const Bi = br * B1i + bi * B1r + cr * B2i + ci * B2r;
+    const B1r = w.B1r;
+    const B1i = w.B1i;
+    w.step(k);
     if ((k & 3) === 0) {
       // every 4 steps: the relative size of the last difference, and the tail of a
       // geometric series with the observed ratio 2^{rho} per step
       lc += 0.5 * Math.log2(cprod);
       cprod = 1;
-      const rel = lc - 0.5 * (Math.log2(B1r * B1r + B1i * B1i) + Math.log2(Ar * Ar + Ai * Ai)) - 2 * scale;
+      const rel = lc - 0.5 * (Math.log2(B1r * B1r + B1i * B1i) + Math.log2(w.A1r * w.A1r + w.A1i * w.A1i)) - 2 * w.scale;
       const rho = (rel - prevRel) / 4;
       if (rho < -0.02 && rel - Math.log2(1 - 2 ** rho) < -bits) return k + 1;
       prevRel = rel;
     }
-    A2r = A1r;
-    A2i = A1i;
-    A1r = Ar;
-    A1i = Ai;
-    B2r = B1r;
-    B2i = B1i;
-    B1r = Br;
-    B1i = Bi;
-    if (Math.abs(Br) + Math.abs(Bi) > 2 ** 400) {
-      const s = 2 ** -400;
-      A1r *= s;
-      A1i *= s;
-      A2r *= s;
-      A2i *= s;
-      B1r *= s;
-      B1i *= s;
-      B2r *= s;
-      B2i *= s;
-      scale += 400;
-    }
+    w.rescale();
   }
   return Infinity;
+}
+
+/**
+ * The Wallis recurrence of the J-fraction in double precision:
+ * A_k = b_k A_{k-1} + c_k A_{k-2} (B likewise) with b_k = x + 2k + 1 - a, c_k = -k (k - a);
+ * A_{-1} = 1, A_0 = b_0, B_{-1} = 0, B_0 = 1. `scale` counts the factors 2^-400 applied.
+ */
+class WallisDouble {
+  A2r = 1;
+  A2i = 0;
+  A1r: number;
+  A1i: number;
+  B2r = 0;
+  B2i = 0;
+  B1r = 1;
+  B1i = 0;
+  scale = 0;
+  constructor(
+    private readonly ar: number,
+    private readonly ai: number,
+    private readonly x: number,
+  ) {
+    this.A1r = x + 1 - ar;
+    this.A1i = -ai;
+  }
+  /** |c_k|^2 */
+  partialNumerator2(k: number): number {
+    const cr = -k * (k - this.ar);
+    const ci = k * this.ai;
+    return cr * cr + ci * ci;
+  }
+  step(k: number): void {
+    const br = this.x + 2 * k + 1 - this.ar;
+    const ai = this.ai;
+    const cr = -k * (k - this.ar);
+    const ci = k * ai;
+    const Ar = br * this.A1r + ai * this.A1i + cr * this.A2r - ci * this.A2i;
+    const Ai = br * this.A1i - ai * this.A1r + cr * this.A2i + ci * this.A2r;
+    const Br = br * this.B1r + ai * this.B1i + cr * this.B2r - ci * this.B2i;
+    const Bi = br * this.B1i - ai * this.B1r + cr * this.B2i + ci * this.B2r;
+    this.A2r = this.A1r;
+    this.A2i = this.A1i;
+    this.A1r = Ar;
+    this.A1i = Ai;
+    this.B2r = this.B1r;
+    this.B2i = this.B1i;
+    this.B1r = Br;
+    this.B1i = Bi;
+  }
+  /** Keeps the numbers inside the double range (the ratios are unchanged). */
+  rescale(): void {
+    if (Math.abs(this.B1r) + Math.abs(this.B1i) <= 2 ** 400) return;
+    const s = 2 ** -400;
+    this.A1r *= s;
+    this.A1i *= s;
+    this.A2r *= s;
+    this.A2i *= s;
+    this.B1r *= s;
+    this.B1i *= s;
+    this.B2r *= s;
+    this.B2i *= s;
+    this.scale += 400;
+  }
 }
 
 /**
@@ -510,33 +540,10 @@ function roundBits(W: number): number {
 
 /** log2 |f(a, x)| roughly, from the 8th convergent of the J-fraction in double precision. */
 function log2AbsCfDouble(ar: number, ai: number, x: number): number {
-  let A2r = 1;
-  let A2i = 0;
-  let A1r = x + 1 - ar;
-  let A1i = -ai;
-  let B2r = 0;
-  let B2i = 0;
-  let B1r = 1;
-  let B1i = 0;
-  for (let k = 1; k <= 8; k++) {
-    const br = x + 2 * k + 1 - ar;
-    const cr = -k * (k - ar);
-    const ci = k * ai;
-    const Ar = br * A1r + ai * A1i + cr * A2r - ci * A2i;
-    const Ai = br * A1i - ai * A1r + cr * A2i + ci * A2r;
-    const Br = br * B1r + ai * B1i + cr * B2r - ci * B2i;
-    const Bi = br * B1i - ai * B1r + cr * B2i + ci * B2r;
-    A2r = A1r;
-    A2i = A1i;
-    A1r = Ar;
-    A1i = Ai;
-    B2r = B1r;
-    B2i = B1i;
-    B1r = Br;
-    B1i = Bi;
-  }
+  const w = new WallisDouble(ar, ai, x);
+  for (let k = 1; k <= 8; k++) w.step(k);
   // f = 1/K, K = A/B
-  return 0.5 * (Math.log2(B1r * B1r + B1i * B1i) - Math.log2(A1r * A1r + A1i * A1i));
+  return 0.5 * (Math.log2(w.B1r * w.B1r + w.B1i * w.B1i) - Math.log2(w.A1r * w.A1r + w.A1i * w.A1i));
 }
 
 // ---------------------------------------------------------------------------
