@@ -4,7 +4,7 @@
  * Method (identical on both sides): for each argument, one warm-up call, then repeated
  * calls until at least MIN_MS have passed (at least MIN_REPS calls); the time per call is
  * the total over the count. A row reports the median over its arguments, in microseconds.
- * mpmath runs in bench/mpmath_bench.py under /usr/bin/python3 (Debian's python3-mpmath);
+ * mpmath runs in test/bench/mpmath_bench.py under /usr/bin/python3 (Debian's python3-mpmath);
  * when that is missing the ratio column says so.
  */
 import { spawnSync } from 'node:child_process';
@@ -12,7 +12,7 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { withDigits } from '../src/numeric/precision.js';
+import { withDigits } from '../../src/numeric/precision.js';
 
 export const MIN_MS = 30;
 export const MIN_REPS = 3;
@@ -21,7 +21,7 @@ export const MIN_REPS = 3;
 export interface BenchRow {
   /** Row label, e.g. "Gamma(z)". */
   label: string;
-  /** Name of the mpmath-side computation in bench/mpmath_bench.py. */
+  /** Name of the mpmath-side computation in test/bench/mpmath_bench.py. */
   mpmath: string;
   /** Argument tuples; each argument is [re, im] as decimal strings. */
   args: [string, string][][];
@@ -77,7 +77,7 @@ export function timeMpmath(rows: BenchRow[], precisions: number[]): Map<string, 
       precisions.map((d) => ({ key: `${i}@${d}`, name: r.mpmath, digits: d, args: r.args })),
     );
     writeFileSync(spec, JSON.stringify({ minMs: MIN_MS, minReps: MIN_REPS, jobs }));
-    const script = fileURLToPath(new URL('../../bench/mpmath_bench.py', import.meta.url));
+    const script = fileURLToPath(new URL('../../../test/bench/mpmath_bench.py', import.meta.url));
     const res = spawnSync(PYTHON, [script, spec], { encoding: 'utf8', maxBuffer: 1 << 24 });
     if (res.status !== 0) {
       process.stderr.write(`mpmath side failed:\n${res.stderr}\n`);

@@ -1,5 +1,5 @@
 #!/usr/bin/env python3
-"""The mpmath side of `npm run bench`: same arguments, same timing method as bench/harness.ts.
+"""The mpmath side of `npm run bench`: same arguments, same timing method as test/bench/harness.ts.
 
 Reads a JSON spec (jobs: name, digits, argument tuples as [re, im] decimal strings) and
 writes SPEC.out with the median microseconds per call for each job key.

@@ -1,20 +1,20 @@
 /**
  * `npm run bench`: median microseconds per evaluation, modvet beside mpmath, same
- * seeded arguments, same run. See bench/harness.ts for the timing method.
+ * seeded arguments, same run. See test/bench/harness.ts for the timing method.
  */
 import { Decimal } from 'decimal.js';
-import { Complex } from '../src/numeric/complex.js';
-import { Random } from '../src/numeric/random.js';
-import { gamma, logGamma } from '../src/special/gamma.js';
-import { zeta } from '../src/special/zeta.js';
-import { dirichletBeta } from '../src/special/dirichletBeta.js';
-import { besselK } from '../src/special/besselK.js';
-import { gammaUpper } from '../src/special/incompleteGamma.js';
-import { eisensteinE } from '../src/modular/eisenstein.js';
-import { eta } from '../src/modular/eta.js';
-import { kleinJ } from '../src/modular/kleinJ.js';
-import { nonholomorphicE } from '../src/modular/nonholomorphic.js';
-import { run } from '../src/cli/program.js';
+import { Complex } from '../../src/numeric/complex.js';
+import { Random } from '../../src/numeric/random.js';
+import { gamma, logGamma } from '../../src/special/gamma.js';
+import { zeta } from '../../src/special/zeta.js';
+import { dirichletBeta } from '../../src/special/dirichletBeta.js';
+import { besselK } from '../../src/special/besselK.js';
+import { gammaUpper } from '../../src/special/incompleteGamma.js';
+import { eisensteinE } from '../../src/modular/eisenstein.js';
+import { eta } from '../../src/modular/eta.js';
+import { kleinJ } from '../../src/modular/kleinJ.js';
+import { nonholomorphicE } from '../../src/modular/nonholomorphic.js';
+import { run } from '../../src/cli/program.js';
 import { BenchRow, mpmathVersion, printTable, timeMpmath, timeRow, Timing } from './harness.js';
 
 const PRECISIONS = [30, 50, 100];
