@@ -45,6 +45,8 @@ function usesTau(e: Expr): boolean {
     case 'letCall':
       return usesTau(e.body);
     case 'moebius':
+    case 'operator':
+      // operators act on tau; the moebius action needs the claim's group element
       return true;
     default:
       return false;
@@ -96,31 +98,40 @@ export function runEval(expression: string, flags: EvalFlags, io: Streams): numb
     throw new UsageError('the expression uses tau: give a point, e.g. --at "tau=0.1+1.2i"');
   }
   const yMin = flags.ymin !== undefined ? Number(flags.ymin) : undefined;
-  const at = (P: number): Complex =>
+  const at = (P: number): { value: Complex; scale: Decimal } =>
     withDigits(P, () => {
       const params = new Map<string, Complex>();
       for (const p of claim.params) if (p.kind === 'list') params.set(p.name, evaluateConstant(p.values[0]!));
       const tau = claim.at !== undefined ? evaluateConstant(claim.at.points[0]!) : Complex.I;
       try {
-        return evaluate(claim.lhs, { tau, params, ...(yMin !== undefined ? { yMin } : {}) }).value;
+        return evaluate(claim.lhs, { tau, params, ...(yMin !== undefined ? { yMin } : {}) });
       } catch (e) {
         throw asModvetError(e);
       }
     });
-  for (let extra = 10; ; extra *= 2) {
+  // a value below its own error bound (10^-P scale, evaluate.ts) is zero as far as P digits tell
+  const isNoise = (r: { value: Complex; scale: Decimal }, P: number) =>
+    r.value.abs().lte(r.scale.times(new Decimal(10).pow(2 - P)));
+  for (let extra = 10; extra <= 4 * N + 80; extra *= 2) {
     const p1 = Math.min(MAX_DIGITS, N + extra);
     const p2 = Math.min(MAX_DIGITS, N + extra + 15);
-    const a = roundComplex(at(p1), N);
-    const b = roundComplex(at(p2), N);
+    const r1 = at(p1);
+    const r2 = at(p2);
+    if (isNoise(r1, p1) && isNoise(r2, p2)) {
+      io.err(`note: the value is zero to within its error at ${p1} and ${p2} digits (|value| <= ${r2.value.abs().toSD(3).toString()}); printed as 0\n`);
+      io.out(flags.json ? JSON.stringify({ re: '0', im: '0' }) + '\n' : '0 + 0 i\n');
+      return 0;
+    }
+    const a = roundComplex(r1.value, N);
+    const b = roundComplex(r2.value, N);
     if (a.equals(b)) {
       io.err(`note: evaluated at ${p1} and ${p2} digits; both round to the value below\n`);
       io.out(flags.json ? JSON.stringify({ re: a.re.toString(), im: a.im.toString() }) + '\n' : formatComplex(a) + '\n');
       return 0;
     }
-    if (p1 >= MAX_DIGITS) {
-      throw new ModvetError('precision', 'eval', `the value could not be rounded to ${N} digits within ${MAX_DIGITS} digits of working precision`);
-    }
+    if (p1 >= MAX_DIGITS) break;
   }
+  throw new ModvetError('precision', 'eval', `the value could not be rounded to ${N} digits: evaluations at different precisions keep disagreeing`);
 }
 
 /** Diagnostics inside the expression are shown against the expression as the user typed it. */

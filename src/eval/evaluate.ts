@@ -47,7 +47,7 @@
  *   withDigits(40, () => evaluate(claim.lhs, { tau: Complex.of('0.1', '1.2') }).value)
  */
 import { Decimal } from 'decimal.js';
-import type { Comparison, ConstantName, Expr, Region, RegionQuantity, Span, TauPartName } from '../lang/ast.js';
+import type { Comparison, ConstantName, Expr, Operator, Region, RegionQuantity, Span, TauPartName } from '../lang/ast.js';
 import type { Mat2 } from '../groups/matrix.js';
 import { Complex } from '../numeric/complex.js';
 import { euler, pi } from '../numeric/constants.js';
@@ -55,6 +55,7 @@ import { ModvetError, type NumericErrorCode } from '../numeric/errors.js';
 import { withGuard } from '../numeric/precision.js';
 import { isStackOverflow } from '../lang/resolve.js';
 import { callBuiltin, type Val } from './builtins.js';
+import { applyOperator } from './derivative.js';
 
 /** Extra digits the whole expression is evaluated with (see the header). */
 export const EVAL_GUARD_DIGITS = 5;
@@ -222,6 +223,11 @@ class Walker {
 
   constructor(private readonly env: EvalEnv | null) {}
 
+  /** Fixes a node's value (a frozen let argument of an operator). */
+  seed(e: Expr, v: Val): void {
+    this.memo.set(e, v);
+  }
+
   run(e: Expr): Val {
     const hit = this.memo.get(e);
     if (hit !== undefined) return hit;
@@ -274,6 +280,8 @@ class Walker {
           return rethrow(err, e.span, e.fn);
         }
       }
+      case 'operator':
+        return this.operator(e);
       case 'letCall':
         try {
           return this.run(e.body);
@@ -281,6 +289,39 @@ class Walker {
           if (err instanceof EvalError) throw new EvalError(err.code, err.span, err.fn, err.message, [...err.trace, e.span]);
           throw err;
         }
+    }
+  }
+
+  /** A differential operator (derivative.ts): the operand is walked afresh at shifted points. */
+  private operator(e: Operator): Val {
+    const env = this.env;
+    // frozen let arguments: evaluated here, once per precision, and seeded into each shifted walk
+    const frozen = new Map<number, Map<Expr, Val>>();
+    const frozenAt = (): Map<Expr, Val> => {
+      const P = Decimal.precision;
+      let m = frozen.get(P);
+      if (m === undefined) {
+        const w = new Walker(env);
+        m = new Map(e.frozen.map((f) => [f, w.run(f)]));
+        frozen.set(P, m);
+      }
+      return m;
+    };
+    try {
+      return applyOperator(e, {
+        run: (x) => this.run(x),
+        // the shifted points are exact inputs: the error of tau itself is not differentiated
+        evalAt: (x, tau) => {
+          const w = new Walker(env === null ? { tau } : { ...env, tau, tauError: ZERO });
+          if (e.frozen.length > 0) for (const [f, v] of frozenAt()) w.seed(f, v);
+          return w.run(x);
+        },
+        tau: () => (env === null ? this.unbound(e.span, e.op) : env.tau),
+        yMin: env?.yMin,
+        guard: EVAL_GUARD_DIGITS,
+      });
+    } catch (err) {
+      return rethrow(err, e.span, e.op);
     }
   }
 

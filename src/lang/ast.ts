@@ -21,8 +21,12 @@
  * - Clause values (box corners, list elements, fixed points, region bounds) are constant
  *   expressions: no tau, parameters or group. Evaluate them with evaluateConstant.
  *
- * Extension point for the next stage (operators lap, dtau, dtaubar, qd, Maass raising and
- * lowering, Serre derivative; sum, prod, limit): add a node kind here, its name and
+ * - Differential operators (lap, dtau, dtaubar, qd, raise, lower, serre) are `operator`
+ *   nodes: the operand is a function of the tau it mentions (a `tau` node, never a let's
+ *   argument), and `at` says where the result is taken (null: the tau of the evaluation
+ *   environment); the let's other arguments that depend on tau are held fixed (`frozen`). They nest at most MAX_OPERATOR_DEPTH deep (names.ts).
+ *
+ * Extension point for the next stage (sum, prod, limit): add a node kind here, its name and
  * argument shape to names.ts (it is listed there in PLANNED and diagnosed 'not-implemented'
  * until then), its resolution rule in resolve.ts, and a case in evaluate.ts, which can
  * re-enter `evaluate` with another tau or extra parameter values (EvalEnv is plain data).
@@ -39,6 +43,8 @@ export type ConstantName = 'i' | 'pi' | 'euler' | 'rho';
 export type TauPartName = 'x' | 'y' | 'taubar' | 'q';
 export type GroupEntryName = 'a' | 'b' | 'c' | 'd';
 export type BinaryOp = '+' | '-' | '*' | '/' | '^';
+/** Differential operators; summaries and the sign convention in names.ts. */
+export type OperatorName = 'lap' | 'dtau' | 'dtaubar' | 'qd' | 'raise' | 'lower' | 'serre';
 
 /** Built-in functions; arities and summaries in names.ts. */
 export type BuiltinName =
@@ -122,7 +128,30 @@ export interface LetCall {
   span: Span;
 }
 
+/**
+ * op(f) or op(k, f) (raise, serre). `arg` is the operand, a function of the `tau` nodes in
+ * it; the result is taken at `at` (null: the environment's tau; inside a let with a tau
+ * parameter, that argument). `weight` (raise, serre) does not depend on tau.
+ */
+export interface Operator {
+  kind: 'operator';
+  op: OperatorName;
+  weight: Expr | null;
+  arg: Expr;
+  at: Expr | null;
+  /**
+   * Inside a let with a tau parameter: the let's other arguments that depend on tau. They
+   * are held at their values in the environment while the operand's tau moves (the
+   * evaluator seeds them), so `let F(tau, w) = dtau(w*tau)` called as F(tau, y) gives y.
+   */
+  frozen: Expr[];
+  /** The span of the operator name alone. */
+  nameSpan: Span;
+  span: Span;
+}
+
 export type Expr =
+  | Operator
   | NumberLit
   | ConstantRef
   | TauRef

@@ -44,7 +44,8 @@ export type DiagnosticCode =
   | 'not-constant' // a clause value that depends on tau, parameters or the group
   | 'duplicate-name' // a name defined twice, or clashing with a built-in or another binding
   | 'recursive-let' // a let that uses itself, directly or through other lets
-  | 'not-implemented'; // a planned operator (lap, sum, ...) not available yet
+  | 'operator-depth' // differential operators nested deeper than MAX_OPERATOR_DEPTH
+  | 'not-implemented'; // a planned construct (sum, prod, limit) not available yet
 
 export interface Diagnostic {
   code: DiagnosticCode;

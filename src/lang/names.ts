@@ -1,6 +1,6 @@
 /**
  * The names the claim language knows: built-in functions with their arities, constants,
- * the parts of tau, keywords, and the operators planned for the next stage.
+ * the parts of tau, keywords, the differential operators, and the constructs planned next.
  *
  * Convention: names are case-sensitive and keep the trade's notation (E, G, Gamma, Delta,
  * j). This table is the one place the resolver learns a function's argument count; the
@@ -8,7 +8,7 @@
  *
  *   knownNames().filter((n) => n.kind === 'function').map((n) => n.signature)
  */
-import type { BuiltinName, ConstantName, TauPartName } from './ast.js';
+import type { BuiltinName, ConstantName, OperatorName, TauPartName } from './ast.js';
 
 export interface BuiltinSpec {
   /** Accepted argument counts (Gamma takes 1 or 2). */
@@ -84,15 +84,40 @@ export const KEYWORDS: ReadonlySet<string> = new Set([
 /** Group names after `for g in` (SL2Z alone, the others with a level). */
 export const GROUP_NAMES: readonly ('SL2Z' | 'Gamma0' | 'Gamma1' | 'Gamma')[] = ['SL2Z', 'Gamma0', 'Gamma1', 'Gamma'];
 
-/** Operators of the next stage: reserved, diagnosed 'not-implemented' for now. */
+/**
+ * Differential operators: they act on an expression (a function of the tau in scope), not
+ * on a value; the evaluator differentiates numerically (src/eval/derivative.ts). With
+ * weight: the first argument is the weight k (it must not depend on tau), the last the operand.
+ * Sign convention of the Laplacian: lap(y^s) = s(s-1) y^s (eigenvalue s(s-1), not s(1-s)).
+ */
+export interface OperatorSpec {
+  /** Whether the operator takes a weight k before the operand. */
+  weighted: boolean;
+  signature: string;
+  summary: string;
+}
+
+const op = (weighted: boolean, signature: string, summary: string): OperatorSpec => ({ weighted, signature, summary });
+
+export const OPERATORS: Readonly<Record<OperatorName, OperatorSpec>> = {
+  lap: op(false, 'lap(f)', 'hyperbolic Laplacian y^2 (d_x^2 + d_y^2) f; sign: lap(y^s) = s(s-1) y^s (eigenvalue s(s-1))'),
+  dtau: op(false, 'dtau(f)', 'd/dtau f = (1/2)(d_x - i d_y) f'),
+  dtaubar: op(false, 'dtaubar(f)', 'd/dtaubar f = (1/2)(d_x + i d_y) f (0 for holomorphic f)'),
+  qd: op(false, 'qd(f)', 'q d/dq f = (1/(2 pi i)) d/dtau f'),
+  raise: op(true, 'raise(k, f)', 'Maass raising R_k f = 2i dtau(f) + (k/y) f'),
+  lower: op(false, 'lower(f)', 'Maass lowering L f = -2i y^2 dtaubar(f)'),
+  serre: op(true, 'serre(k, f)', 'Serre derivative qd(f) - (k/12) E_2 f'),
+};
+
+export function isOperator(name: string): name is OperatorName {
+  return Object.prototype.hasOwnProperty.call(OPERATORS, name);
+}
+
+/** Operator nesting allowed in one expression: the cost grows like 13^depth evaluations. */
+export const MAX_OPERATOR_DEPTH = 4;
+
+/** Constructs of the next stage: reserved, diagnosed 'not-implemented' for now. */
 export const PLANNED: Readonly<Record<string, string>> = {
-  lap: 'hyperbolic Laplacian y^2 (d_x^2 + d_y^2)',
-  dtau: 'd/dtau',
-  dtaubar: 'd/dtaubar',
-  qd: 'q d/dq',
-  raise: 'Maass raising operator',
-  lower: 'Maass lowering operator',
-  serre: 'Serre derivative',
   sum: 'sums',
   prod: 'products',
   limit: 'limits',
@@ -118,6 +143,9 @@ export function knownNames(): NameInfo[] {
   }
   for (const [name, s] of Object.entries(BUILTINS) as [BuiltinName, BuiltinSpec][]) {
     out.push({ name, kind: 'function', arities: s.arities, signature: s.signature, summary: s.summary });
+  }
+  for (const [name, s] of Object.entries(OPERATORS) as [OperatorName, OperatorSpec][]) {
+    out.push({ name, kind: 'function', arities: [s.weighted ? 2 : 1], signature: s.signature, summary: s.summary });
   }
   return out;
 }

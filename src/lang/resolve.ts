@@ -25,6 +25,7 @@ import type {
   Comparison,
   Expr,
   FileAst,
+  Operator,
   GroupClause,
   GroupEntryName,
   LetInfo,
@@ -37,7 +38,8 @@ import type {
   TauRef,
 } from './ast.js';
 import { diagnostic, type Diagnostic, type DiagnosticCode } from './diagnostics.js';
-import { BUILTINS, CONSTANTS, PLANNED, TAU_PARTS, isBuiltin, isConstant, isTauPart, nearestNames } from './names.js';
+import { dependsOnTau, tooDeep } from './depends.js';
+import { BUILTINS, CONSTANTS, MAX_OPERATOR_DEPTH, OPERATORS, PLANNED, TAU_PARTS, isBuiltin, isConstant, isOperator, isTauPart, nearestNames } from './names.js';
 import type { ClauseSyntax, ConditionSyntax, Item, SettingSyntax, SyntaxExpr } from './syntax.js';
 
 type LetItem = Extract<Item, { kind: 'let' }>;
@@ -47,7 +49,7 @@ const GROUP_ENTRIES: readonly GroupEntryName[] = ['a', 'b', 'c', 'd'];
 
 /** Names no binding may take. */
 function isGlobalName(name: string): boolean {
-  return isBuiltin(name) || isConstant(name) || isTauPart(name) || name === 'tau';
+  return isBuiltin(name) || isOperator(name) || isConstant(name) || isTauPart(name) || name === 'tau';
 }
 
 interface Scope {
@@ -189,7 +191,7 @@ class Resolver {
         if (seen.has(p.name)) {
           this.report('duplicate-name', `parameter ${p.name} appears twice in let ${it.name.name}`, p.span);
           this.brokenLets.add(it.name.name);
-        } else if (isBuiltin(p.name) || isConstant(p.name) || this.lets.has(p.name)) {
+        } else if (isBuiltin(p.name) || isOperator(p.name) || isConstant(p.name) || this.lets.has(p.name)) {
           this.report('duplicate-name', `parameter ${p.name} of let ${it.name.name} clashes with ${this.lets.has(p.name) ? 'a let' : 'a built-in'} of that name`, p.span, 'rename the parameter');
           this.brokenLets.add(it.name.name);
         }
@@ -332,6 +334,9 @@ class Resolver {
       const spec = BUILTINS[name];
       return this.report('not-a-value', `${name} is a function`, span, `call it: ${spec.signature}`);
     }
+    if (isOperator(name)) {
+      return this.report('not-a-value', `${name} is an operator`, span, `apply it: ${OPERATORS[name].signature}`);
+    }
     if (this.lets.has(name)) {
       if (this.brokenLets.has(name)) return this.brokenUse();
       const it = this.lets.get(name)!;
@@ -360,7 +365,7 @@ class Resolver {
     if (PLANNED[name] !== undefined) {
       return this.report('not-implemented', `${name} (${PLANNED[name]}) is planned but not available yet`, span);
     }
-    const candidates: string[] = [...Object.keys(BUILTINS), ...Object.keys(CONSTANTS), ...Object.keys(TAU_PARTS), 'tau', ...this.lets.keys(), ...scope.params];
+    const candidates: string[] = [...Object.keys(BUILTINS), ...Object.keys(OPERATORS), ...Object.keys(CONSTANTS), ...Object.keys(TAU_PARTS), 'tau', ...this.lets.keys(), ...scope.params];
     if (scope.letArgs !== null) candidates.push(...scope.letArgs.keys());
     if (scope.group !== null) candidates.push(scope.group, ...GROUP_ENTRIES);
     const near = nearestNames(name, candidates);
@@ -375,12 +380,14 @@ class Resolver {
   }
 
   private call(s: Extract<SyntaxExpr, { kind: 'call' }>, scope: Scope): Expr | null {
-    const args: (Expr | null)[] = s.args.map((a) => this.expr(a, scope));
-    const ok = (xs: (Expr | null)[]): xs is Expr[] => xs.every((x) => x !== null);
     const name = s.name;
     if (scope.letArgs?.has(name) || scope.params.has(name) || isConstant(name) || isTauPart(name) || name === 'tau') {
+      s.args.forEach((a) => this.expr(a, scope));
       return this.report('not-callable', `${name} is a value, not a function`, s.nameSpan, "write '*' for a product");
     }
+    if (isOperator(name)) return this.operator(s, name, scope);
+    const args: (Expr | null)[] = s.args.map((a) => this.expr(a, scope));
+    const ok = (xs: (Expr | null)[]): xs is Expr[] => xs.every((x) => x !== null);
     if (name === scope.group) {
       if (s.args.length !== 1) return this.report('arity', `the group element ${name} acts on one point, not ${s.args.length}`, s.span, `${name}(tau)`);
       return ok(args) ? { kind: 'moebius', group: name, arg: args[0]!, span: s.span } : null;
@@ -404,6 +411,51 @@ class Resolver {
     }
     if ((GROUP_ENTRIES as readonly string[]).includes(name)) return this.report('not-callable', `${name} is a matrix entry, not a function`, s.nameSpan);
     return this.unknown(name, s.nameSpan, scope, s.args.length);
+  }
+
+  /**
+   * op(f) or op(k, f). The operand is a function of tau: in a let with a tau parameter the
+   * operand's tau is the variable (not the argument), and the result is taken at the
+   * argument (`at`). The weight is resolved in the outer scope and must not depend on tau.
+   */
+  private operator(s: Extract<SyntaxExpr, { kind: 'call' }>, op: Operator['op'], scope: Scope): Expr | null {
+    const spec = OPERATORS[op];
+    const want = spec.weighted ? 2 : 1;
+    if (s.args.length !== want) {
+      s.args.forEach((a) => this.expr(a, scope));
+      return this.report('arity', `${op} expects ${plural(want, 'argument')}, got ${s.args.length}`, s.span, spec.signature);
+    }
+    let weight: Expr | null = null;
+    let weightOk = true;
+    if (spec.weighted) {
+      weight = this.expr(s.args[0]!, scope);
+      if (weight !== null && dependsOnTau(weight)) {
+        this.report('not-constant', `the weight of ${op} cannot depend on tau`, s.args[0]!.span, `${spec.signature}: k is a number or a parameter`);
+        weightOk = false;
+      }
+    }
+    let inner = scope;
+    const frozen: Expr[] = [];
+    if (scope.tau !== null && scope.letArgs !== null) {
+      const letArgs = new Map(scope.letArgs);
+      letArgs.delete('tau');
+      inner = { ...scope, letArgs, tau: null };
+      // the other arguments belong to the caller's tau: held fixed while the operand's tau moves
+      for (const a of letArgs.values()) if (dependsOnTau(a)) frozen.push(a);
+    }
+    const arg = this.expr(s.args[want - 1]!, inner);
+    if (arg === null || !weightOk || (spec.weighted && weight === null)) return null;
+    const node: Operator = { kind: 'operator', op, weight, arg, at: scope.tau, frozen, nameSpan: s.nameSpan, span: s.span };
+    return node;
+  }
+
+  /** Reports operators nested deeper than MAX_OPERATOR_DEPTH (at the outermost such node). */
+  private checkDepth(e: Expr | null): Expr | null {
+    if (e === null) return null;
+    const bad = tooDeep(e, MAX_OPERATOR_DEPTH);
+    if (bad === null) return e;
+    const where = bad.kind === 'letCall' ? ` (through let ${bad.name})` : '';
+    return this.report('operator-depth', `differential operators nest more than ${MAX_OPERATOR_DEPTH} deep here${where}`, bad.span, `at most ${MAX_OPERATOR_DEPTH} nested operators: each level multiplies the evaluations by about 13`);
   }
 
   // -------------------------------------------------------------------------
@@ -476,8 +528,8 @@ class Resolver {
     let lhs: Expr | null = null;
     let rhs: Expr | null = null;
     if (it.equation !== null) {
-      lhs = this.expr(it.equation.lhs, scope);
-      rhs = this.expr(it.equation.rhs, scope);
+      lhs = this.checkDepth(this.expr(it.equation.lhs, scope));
+      rhs = this.checkDepth(this.expr(it.equation.rhs, scope));
     }
     if (it.broken || this.usedBroken || this.diagnostics.length > before || lhs === null || rhs === null || it.equation === null) return null;
     const eq = it.equation;
@@ -659,6 +711,9 @@ function firstNonConstant(root: Expr): Expr | null {
         // point at the call, not into the let's definition
         return r === null ? null : e;
       }
+      case 'operator':
+        // taken at the environment's tau, or at a let's argument
+        return e.at === null || e.frozen.length > 0 ? e : walk(e.at) === null ? null : e;
     }
   };
   return walk(root);

@@ -1,7 +1,7 @@
 // The name table: every built-in listed with its arity, the help listing, the edit
 // distance (textbook values) and the nearest-name hints.
 import { describe, expect, it } from 'vitest';
-import { BUILTINS, KEYWORDS, PLANNED, editDistance, knownNames, nearestNames } from '../../src/lang/names.js';
+import { BUILTINS, KEYWORDS, OPERATORS, PLANNED, editDistance, knownNames, nearestNames } from '../../src/lang/names.js';
 
 describe('knownNames', () => {
   it('lists constants, tau and its parts, the group entries and every built-in with its arities', () => {
@@ -12,7 +12,7 @@ describe('knownNames', () => {
     for (const e of ['a', 'b', 'c', 'd']) expect(byName.get(e)?.kind).toBe('group entry');
     expect(byName.get('Gamma')?.arities).toEqual([1, 2]);
     expect(byName.get('E')?.arities).toEqual([2]);
-    expect(names.filter((n) => n.kind === 'function')).toHaveLength(Object.keys(BUILTINS).length);
+    expect(names.filter((n) => n.kind === 'function')).toHaveLength(Object.keys(BUILTINS).length + Object.keys(OPERATORS).length);
     for (const n of names) expect(n.summary.length).toBeGreaterThan(0);
   });
   it('no built-in is a keyword or a planned operator', () => {

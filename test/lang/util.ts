@@ -57,5 +57,7 @@ export function sexpr(e: Expr): string {
       return `(${e.fn}${e.args.map((a) => ' ' + sexpr(a)).join('')})`;
     case 'letCall':
       return `(let ${e.name} ${sexpr(e.body)})`;
+    case 'operator':
+      return `(${e.op}${e.weight === null ? '' : ' ' + sexpr(e.weight)} ${sexpr(e.arg)}${e.at === null ? '' : ' @' + sexpr(e.at)})`;
   }
 }
