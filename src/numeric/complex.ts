@@ -13,7 +13,7 @@ import { Decimal } from 'decimal.js';
 import { ModvetError } from './errors.js';
 import * as fx from './fixed.js';
 import { fromFixed, toFixed } from './convert.js';
-import { bitsFor } from './precision.js';
+import { bitsFor, withGuard } from './precision.js';
 
 export type Real = Decimal;
 export type RealLike = Decimal | number | string;
@@ -205,20 +205,17 @@ export class Complex {
 
   sqrt(): Complex {
     if (this.isZero()) return Complex.ZERO;
-    const P = Decimal.precision;
-    Decimal.set({ precision: P + 6 });
-    try {
+    // t = sqrt((|z| + |Re z|)/2) has no cancellation; the other part is Im z/(2t)
+    return withGuard(6, () => {
       const r = this.abs();
       if (!this.re.isNegative()) {
         const t = r.plus(this.re).div(2).sqrt();
-        return new Complex(t, this.im.div(t.times(2))).round0(P);
+        return new Complex(t, this.im.div(t.times(2)));
       }
       const t = r.minus(this.re).div(2).sqrt();
       const im = this.im.isNegative() ? t.neg() : t;
-      return new Complex(this.im.abs().div(t.times(2)), im).round0(P);
-    } finally {
-      Decimal.set({ precision: P });
-    }
+      return new Complex(this.im.abs().div(t.times(2)), im);
+    }).round();
   }
 
   /** Principal power z^w = exp(w log z); integer w uses repeated squaring. */
@@ -229,35 +226,27 @@ export class Complex {
       if (e.re.isPositive() && !e.re.isZero()) return Complex.ZERO;
       throw new ModvetError('pole', 'pow', `0^(${e}) is undefined`);
     }
-    const P = Decimal.precision;
-    // the error of w log z is amplified by |w log z|: carry its size as guard digits
-    const guard = 4 + Math.max(0, e.abs().e + 1) + 2;
-    Decimal.set({ precision: P + guard });
-    try {
-      const r = e.mul(this.log());
-      Decimal.set({ precision: P });
-      return r.exp();
-    } finally {
-      Decimal.set({ precision: P });
-    }
+    // exp amplifies the absolute error of w log z into a relative one: carry
+    // log10 |w log z| guard digits (|log z| <= |log |z|| + pi)
+    const logAbs = Math.abs(this.abs().e) * Math.LN10 + Math.PI + 1;
+    const size = Math.log10(Math.max(1, e.abs().toNumber() * logAbs));
+    const r = withGuard(6 + Math.ceil(size), () => e.mul(this.log()));
+    return r.exp();
   }
 
   powInt(n: number): Complex {
     if (n === 0) return Complex.ONE;
     if (n < 0) return this.powInt(-n).inv();
-    const P = Decimal.precision;
-    Decimal.set({ precision: P + 2 + Math.ceil(Math.log10(n + 1) * 2) });
-    try {
+    // repeated squaring rounds about 2 log2 n times
+    return withGuard(2 + Math.ceil(Math.log10(n + 1) * 2), () => {
       let base: Complex = this;
       let acc: Complex = Complex.ONE;
       for (let k = n; k > 0; k >>= 1) {
         if (k & 1) acc = acc.mul(base);
         if (k > 1) base = base.mul(base);
       }
-      return acc.round0(P);
-    } finally {
-      Decimal.set({ precision: P });
-    }
+      return acc;
+    }).round();
   }
 
   sin(): Complex {
@@ -287,10 +276,6 @@ export class Complex {
     return isCos
       ? new Complex(fromFixed(c * ch, F), fromFixed(-s * sh, F))
       : new Complex(fromFixed(s * ch, F), fromFixed(c * sh, F));
-  }
-
-  private round0(P: number): Complex {
-    return new Complex(this.re.toSD(P), this.im.toSD(P));
   }
 
   equals(w: Complex): boolean {
