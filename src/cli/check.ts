@@ -118,7 +118,14 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
   };
   if (flags.json) io.out(jsonReport(VERSION, settings, results, problems));
   else io.out(summaryLine(results, seed, problems.length, color) + '\n');
-  if (flags.junit !== undefined) writeFileSync(resolve(cwd, flags.junit), junitReport(results, problems));
+  if (flags.junit !== undefined) {
+    try {
+      writeFileSync(resolve(cwd, flags.junit), junitReport(results, problems));
+    } catch (e) {
+      io.err(`modvet: cannot write the JUnit report ${flags.junit}: ${e instanceof Error ? e.message : String(e)}\n`);
+      return 2;
+    }
+  }
   if (problems.length > 0) return 2;
   return results.every((r) => r.ok) ? 0 : 1;
 }
