@@ -95,6 +95,8 @@ export function checkClaim(claim: CheckableClaim, opts: CheckOptions): ClaimResu
     throw e;
   }
   const reports: SampleReport[] = [];
+  // samples that ran out of terms have no values to show, only an outcome
+  let unfinished = 0;
   let undecidedReason: string | undefined;
   const yMin = claim.yMin ?? opts.yMin;
   for (let k = 0; k < samples.length; k++) {
@@ -117,29 +119,24 @@ export function checkClaim(claim: CheckableClaim, opts: CheckOptions): ClaimResu
       if (e.code === 'convergence') {
         // a series that ran out of terms never passes: the claim cannot be decided here
         undecidedReason ??= e.message;
-        reports.push({
-          sample: s,
-          lhs: { value: s.tau, scale: new Decimal(0) },
-          rhs: { value: s.tau, scale: new Decimal(0) },
-          assessment: { outcome: 'undecided', residual: new Decimal(0), error: new Decimal(0), digits: 0, reason: e.message, vanishing: false },
-          p1: P,
-          p2: P,
-        });
+        unfinished++;
         continue;
       }
       return done({ verdict: 'error', digits: 0, samples: reports.length, reason: e.message });
     }
   }
-  const verdict = aggregate(reports.map((r) => r.assessment.outcome));
+  const outcomes = reports.map((r) => r.assessment.outcome);
+  for (let k = 0; k < unfinished; k++) outcomes.push('undecided');
+  const verdict = aggregate(outcomes);
   let worst: SampleReport | undefined;
   for (const r of reports) {
     if (worst === undefined || r.assessment.residual.gt(worst.assessment.residual)) worst = r;
   }
-  const digits = verdict === 'refuted' ? 0 : Math.min(...reports.map((r) => r.assessment.digits));
+  const digits = verdict === 'refuted' || unfinished > 0 || reports.length === 0 ? 0 : Math.min(...reports.map((r) => r.assessment.digits));
   return done({
     verdict,
     digits,
-    samples: reports.length,
+    samples: reports.length + unfinished,
     ...(verdict === 'undecided' && undecidedReason !== undefined ? { reason: undecidedReason } : {}),
     ...(worst !== undefined ? { worst } : {}),
   });

@@ -44,6 +44,13 @@ function usesTau(e: Expr): boolean {
       return e.args.some(usesTau);
     case 'letCall':
       return usesTau(e.body);
+    case 'series':
+      return (
+        usesTau(e.body) ||
+        (e.range.kind === 'range' ? usesTau(e.range.from) || (e.range.to !== null && usesTau(e.range.to)) : usesTau(e.range.of))
+      );
+    case 'limit':
+      return usesTau(e.at) || usesTau(e.body);
     case 'moebius':
     case 'operator':
       // operators act on tau; the moebius action needs the claim's group element

@@ -47,7 +47,8 @@
  *   withDigits(40, () => evaluate(claim.lhs, { tau: Complex.of('0.1', '1.2') }).value)
  */
 import { Decimal } from 'decimal.js';
-import type { Comparison, ConstantName, Expr, Operator, Region, RegionQuantity, Span, TauPartName } from '../lang/ast.js';
+import type { Comparison, ConstantName, Expr, Operator, Region, RegionQuantity, Series, Span, TauPartName } from '../lang/ast.js';
+import { freeBoundKeys } from '../lang/depends.js';
 import type { Mat2 } from '../groups/matrix.js';
 import { Complex } from '../numeric/complex.js';
 import { euler, pi } from '../numeric/constants.js';
@@ -56,6 +57,8 @@ import { withGuard } from '../numeric/precision.js';
 import { isStackOverflow } from '../lang/resolve.js';
 import { callBuiltin, type Val } from './builtins.js';
 import { applyOperator } from './derivative.js';
+import { evalSeries } from './series.js';
+import { evalLimit } from './limit.js';
 
 /** Extra digits the whole expression is evaluated with (see the header). */
 export const EVAL_GUARD_DIGITS = 5;
@@ -217,11 +220,23 @@ function constant(name: ConstantName): Val {
   }
 }
 
+const NO_BINDINGS: ReadonlyMap<number, Val> = new Map();
+
 class Walker {
   // expansions share subtrees: each distinct node is evaluated once per call
   private readonly memo = new Map<Expr, Val>();
 
-  constructor(private readonly env: EvalEnv | null) {}
+  /**
+   * bindings: values of series variables by key (series.ts). A term walker has a parent
+   * (the walker of the enclosing scope) and the key it binds: nodes free of that key are
+   * evaluated by the parent, once for all terms.
+   */
+  constructor(
+    private readonly env: EvalEnv | null,
+    private readonly bindings: ReadonlyMap<number, Val> = NO_BINDINGS,
+    private readonly parent: Walker | null = null,
+    private readonly key = -1,
+  ) {}
 
   /** Fixes a node's value (a frozen let argument of an operator). */
   seed(e: Expr, v: Val): void {
@@ -231,6 +246,7 @@ class Walker {
   run(e: Expr): Val {
     const hit = this.memo.get(e);
     if (hit !== undefined) return hit;
+    if (this.parent !== null && !freeBoundKeys(e).has(this.key)) return this.parent.run(e);
     const r = this.node(e);
     this.memo.set(e, r);
     return r;
@@ -282,6 +298,24 @@ class Walker {
       }
       case 'operator':
         return this.operator(e);
+      case 'boundVar': {
+        const v = this.bindings.get(e.key);
+        return v === undefined ? this.unbound(e.span, e.name) : v;
+      }
+      case 'series':
+        return this.series(e);
+      case 'limit':
+        return evalLimit(e, {
+          run: (x) => this.run(x),
+          at: (v) => {
+            const b = new Map(this.bindings);
+            b.set(e.key, { v, s: ZERO });
+            return new Walker(this.env, b, this, e.key).run(e.body);
+          },
+          fail: (code, span, message) => {
+            throw new EvalError(code, span, 'limit', message);
+          },
+        });
       case 'letCall':
         try {
           return this.run(e.body);
@@ -312,7 +346,7 @@ class Walker {
         run: (x) => this.run(x),
         // the shifted points are exact inputs: the error of tau itself is not differentiated
         evalAt: (x, tau) => {
-          const w = new Walker(env === null ? { tau } : { ...env, tau, tauError: ZERO });
+          const w = new Walker(env === null ? { tau } : { ...env, tau, tauError: ZERO }, this.bindings);
           if (e.frozen.length > 0) for (const [f, v] of frozenAt()) w.seed(f, v);
           return w.run(x);
         },
@@ -323,6 +357,21 @@ class Walker {
     } catch (err) {
       return rethrow(err, e.span, e.op);
     }
+  }
+
+  /** A sum or product (series.ts): the body walked once per term with its variable bound. */
+  private series(e: Series): Val {
+    return evalSeries(e, {
+      run: (x) => this.run(x),
+      term: (n) => {
+        const b = new Map(this.bindings);
+        b.set(e.key, { v: new Complex(n, 0), s: ZERO });
+        return new Walker(this.env, b, this, e.key).run(e.body);
+      },
+      fail: (code, span, message) => {
+        throw new EvalError(code, span, e.op, message);
+      },
+    });
   }
 
   private tauPart(part: TauPartName, t: Val, span: Span): Val {

@@ -26,7 +26,16 @@
  *   argument), and `at` says where the result is taken (null: the tau of the evaluation
  *   environment); the let's other arguments that depend on tau are held fixed (`frozen`). They nest at most MAX_OPERATOR_DEPTH deep (names.ts).
  *
- * Extension point for the next stage (sum, prod, limit): add a node kind here, its name and
+ * - Sums and products (sum, prod) are `series` nodes: over an integer range from..to (to
+ *   null: infinity) or over the positive divisors of an integer. The bound variable is a
+ *   `boundVar` node; `key` identifies the series that binds it (names may repeat in
+ *   separate series). Bounds are resolved in the enclosing scope; the body sees the
+ *   variable. A series uses tau when its body or bounds do.
+ *
+ * - limit(s -> a, f) is a `limit` node (removable singularities; src/eval/limit.ts); its s
+ *   is a `boundVar` like a series variable. A limit uses tau when f or a does.
+ *
+ * Extension point (the pattern the constructs above followed): add a node kind here, its name and
  * argument shape to names.ts (it is listed there in PLANNED and diagnosed 'not-implemented'
  * until then), its resolution rule in resolve.ts, and a case in evaluate.ts, which can
  * re-enter `evaluate` with another tau or extra parameter values (EvalEnv is plain data).
@@ -150,7 +159,48 @@ export interface Operator {
   span: Span;
 }
 
+/** The variable of a sum or product; its value comes from the enclosing series. */
+export interface BoundVar {
+  kind: 'boundVar';
+  name: string;
+  /** The `key` of the series that binds it. */
+  key: number;
+  span: Span;
+}
+
+export type SeriesOp = 'sum' | 'prod';
+/** from..to (to null: inf), or the positive divisors of `of`. */
+export type SeriesRange = { kind: 'range'; from: Expr; to: Expr | null } | { kind: 'divisors'; of: Expr };
+
+/** sum(n = a..b, body), sum(n = a..inf, body), sum(d | n, body); prod likewise. */
+export interface Series {
+  kind: 'series';
+  op: SeriesOp;
+  variable: string;
+  /** Unique per series node: the BoundVar nodes of its variable carry it. */
+  key: number;
+  range: SeriesRange;
+  body: Expr;
+  nameSpan: Span;
+  span: Span;
+}
+
+/** limit(s -> at, body): the limit of body as the bound variable s tends to `at` along the real direction. */
+export interface Limit {
+  kind: 'limit';
+  variable: string;
+  /** The BoundVar nodes of s carry it (shared numbering with Series). */
+  key: number;
+  at: Expr;
+  body: Expr;
+  nameSpan: Span;
+  span: Span;
+}
+
 export type Expr =
+  | Limit
+  | Series
+  | BoundVar
   | Operator
   | NumberLit
   | ConstantRef

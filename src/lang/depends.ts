@@ -45,7 +45,33 @@ function children(e: Expr): Expr[] {
       return [e.body];
     case 'operator':
       return [...(e.weight === null ? [] : [e.weight]), e.arg, ...(e.at === null ? [] : [e.at]), ...e.frozen];
+    case 'boundVar':
+      return [];
+    case 'limit':
+      return [e.at, e.body];
+    case 'series':
+      return [...(e.range.kind === 'divisors' ? [e.range.of] : [e.range.from, ...(e.range.to === null ? [] : [e.range.to])]), e.body];
   }
+}
+
+const boundMemo = new WeakMap<Expr, ReadonlySet<number>>();
+const NO_KEYS: ReadonlySet<number> = new Set();
+
+/** The keys of the series variables free in e (bound by an enclosing series, not inside e). */
+export function freeBoundKeys(e: Expr): ReadonlySet<number> {
+  const hit = boundMemo.get(e);
+  if (hit !== undefined) return hit;
+  let r: ReadonlySet<number>;
+  if (e.kind === 'boundVar') {
+    r = new Set([e.key]);
+  } else {
+    const acc = new Set<number>();
+    for (const c of children(e)) for (const k of freeBoundKeys(c)) acc.add(k);
+    if (e.kind === 'series' || e.kind === 'limit') acc.delete(e.key);
+    r = acc.size === 0 ? NO_KEYS : acc;
+  }
+  boundMemo.set(e, r);
+  return r;
 }
 
 /** Whether the value changes with the tau of the evaluation environment. */
@@ -111,6 +137,10 @@ export function isHolomorphic(e: Expr): boolean {
         break;
       case 'letCall':
         r = isHolomorphic(e.body);
+        break;
+      case 'series':
+        // a uniformly convergent series of holomorphic terms; bounds must not move with tau
+        r = isHolomorphic(e.body) && children(e).slice(0, -1).every((c) => !dependsOnTau(c));
         break;
       case 'operator': {
         // d/dtau and q d/dq keep holomorphy; serre too (E_2 is holomorphic); raise has k/y

@@ -14,7 +14,7 @@
 import { diagnostic, type Diagnostic } from './diagnostics.js';
 import { LineTable, type Span } from './span.js';
 
-export type Punct = '(' | ')' | '[' | ']' | '{' | '}' | ',' | '=' | '+' | '-' | '*' | '/' | '^' | '<' | '<=' | '>' | '>=' | '..';
+export type Punct = '(' | ')' | '[' | ']' | '{' | '}' | ',' | '=' | '+' | '-' | '*' | '/' | '^' | '<' | '<=' | '>' | '>=' | '..' | '|';
 
 export type Token =
   | { kind: 'number'; text: string; digits: string; imaginary: boolean; span: Span; bol: boolean }
@@ -27,6 +27,13 @@ export interface LexResult {
   tokens: Token[];
   diagnostics: Diagnostic[];
   lines: LineTable;
+}
+
+/** '|' is a token only in `sum(d | n, ...)` / `prod(d | n, ...)`; elsewhere a bad character (hint: abs). */
+function afterSeriesVariable(tokens: readonly Token[]): boolean {
+  const n = tokens.length;
+  const [f, open, v] = [tokens[n - 3], tokens[n - 2], tokens[n - 1]];
+  return f?.kind === 'ident' && (f.text === 'sum' || f.text === 'prod') && open?.kind === 'punct' && open.text === '(' && v?.kind === 'ident';
 }
 
 const PUNCT2: readonly Punct[] = ['<=', '>=', '..'];
@@ -101,12 +108,12 @@ export function lex(text: string, file: string): LexResult {
       if (PUNCT2.includes(two)) {
         pos += 2;
         tokens.push({ kind: 'punct', text: two, span: span(start, pos), bol });
-      } else if (PUNCT1.has(c)) {
+      } else if (PUNCT1.has(c) || (c === '|' && afterSeriesVariable(tokens))) {
         pos++;
         tokens.push({ kind: 'punct', text: c as Punct, span: span(start, pos), bol });
       } else {
         // one diagnostic for a run of stray characters
-        while (pos < text.length && !/[\sA-Za-z0-9_#"()[\]{},=+\-*/^<>.]/.test(text[pos]!)) pos++;
+        while (pos < text.length && !/[\sA-Za-z0-9_#"()[\]{},=+\-*/^<>.|]/.test(text[pos]!)) pos++;
         if (pos === start) pos++;
         const hint = c === '|' ? 'write abs(...) for a modulus' : c === '!' ? 'write Gamma(n + 1) for a factorial' : undefined;
         diagnostics.push(diagnostic('bad-character', `unexpected character '${text.slice(start, pos)}'`, span(start, pos), hint));

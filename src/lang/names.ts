@@ -116,12 +116,26 @@ export function isOperator(name: string): name is OperatorName {
 /** Operator nesting allowed in one expression: the cost grows like 13^depth evaluations. */
 export const MAX_OPERATOR_DEPTH = 4;
 
-/** Constructs of the next stage: reserved, diagnosed 'not-implemented' for now. */
-export const PLANNED: Readonly<Record<string, string>> = {
-  sum: 'sums',
-  prod: 'products',
-  limit: 'limits',
+/** Constructs of a next stage: reserved, diagnosed 'not-implemented' (none now: sum, prod, limit are implemented). */
+export const PLANNED: Readonly<Record<string, string>> = {};
+
+/**
+ * Sums and products (src/eval/series.ts): sum(n = a..b, f), sum(n = a..inf, f),
+ * sum(d | n, f), and prod likewise. The names sum, prod and inf are reserved.
+ */
+export const SERIES: Readonly<Record<'sum' | 'prod', string>> = {
+  sum: 'sum(n = a..b, f), sum(n = a..inf, f), sum(d | n, f): sum over integers a..b, to infinity, or the positive divisors d of n (empty range: 0)',
+  prod: 'prod(n = a..b, f), prod(n = a..inf, f), prod(d | n, f): product likewise (empty range: 1)',
 };
+export function isSeriesName(name: string): boolean {
+  return name === 'sum' || name === 'prod' || name === 'inf' || name === 'limit';
+}
+/** limit(s -> a, f): the limit of f as s -> a (a removable singularity), src/eval/limit.ts. */
+export const LIMIT_SIGNATURE = 'limit(s -> a, f)';
+/** Most terms of a finite range (a literal range beyond it is 'bad-range'; a computed one fails at evaluation). */
+export const MAX_SERIES_TERMS = 100000;
+/** Terms an infinite sum or product may take before it fails with 'convergence'. */
+export const INFINITE_SERIES_BUDGET = 20000;
 
 export interface NameInfo {
   name: string;

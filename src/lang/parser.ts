@@ -36,7 +36,7 @@
  */
 import type { FileAst, Comparison, Expectation } from './ast.js';
 import { diagnostic, type Diagnostic } from './diagnostics.js';
-import { GROUP_NAMES, KEYWORDS, nearestNames } from './names.js';
+import { GROUP_NAMES, KEYWORDS, MAX_SERIES_TERMS, nearestNames } from './names.js';
 import { lex, type Punct, type Token } from './lexer.js';
 import { resolveFile } from './resolve.js';
 import { joinSpans, type Span } from './span.js';
@@ -302,6 +302,8 @@ function parsePrimary(c: Cursor): SyntaxExpr {
   if (t.kind === 'ident') {
     if (KEYWORDS.has(t.text)) fail('reserved-word', `'${t.text}' is a keyword, not a value`, t.span);
     if (!isPunct(c.peek(), '(')) return { kind: 'name', name: t.text, span: t.span };
+    if (t.text === 'sum' || t.text === 'prod') return parseSeries(c, t);
+    if (t.text === 'limit') return parseLimit(c, t);
     c.next();
     const args: SyntaxExpr[] = [];
     if (!isPunct(c.peek(), ')')) {
@@ -324,6 +326,84 @@ function parsePrimary(c: Cursor): SyntaxExpr {
   }
   if (isPunct(t, '=')) fail('unexpected-token', "unexpected '=' where a value was expected", t.span, "an equation has exactly one '=' between two sides");
   fail('unexpected-token', `expected a value, found ${describe(t)}`, t.span);
+}
+
+/**
+ * series = ('sum' | 'prod') '(' NAME '=' expr '..' (expr | 'inf') ',' expr ')'
+ *        | ('sum' | 'prod') '(' NAME '|' expr ',' expr ')'
+ * Literal integer bounds are checked here ('bad-range'); computed ones at evaluation.
+ */
+function parseSeries(c: Cursor, t: Token): SyntaxExpr {
+  const op = t.text as 'sum' | 'prod';
+  const usage = `${op}(n = 1..inf, expr), ${op}(n = a..b, expr) or ${op}(d | n, expr)`;
+  c.next(); // '('
+  const v = c.next();
+  if (v.kind !== 'ident') fail('unexpected-token', `expected the ${op}mation variable after ${op}(, found ${describe(v)}`, v.span, usage);
+  if (KEYWORDS.has(v.text)) fail('reserved-word', `'${v.text}' is a keyword, not a variable`, v.span);
+  const variable = { name: v.text, span: v.span };
+  let range: Extract<SyntaxExpr, { kind: 'series' }>['range'];
+  const sep = c.peek();
+  if (isPunct(sep, '=')) {
+    c.next();
+    const from = parseExpr(c);
+    c.expectPunct('..', `in the range of ${op} (${usage})`);
+    const tt = c.peek();
+    let to: SyntaxExpr | null = null;
+    if (tt.kind === 'ident' && tt.text === 'inf' && isPunct(c.peek(1), ',')) c.next();
+    else to = parseExpr(c);
+    range = { kind: 'range', from, to, toSpan: joinSpans(tt.span, c.last().span) };
+    checkLiteralRange(from, to, range.toSpan);
+  } else if (isPunct(sep, '|')) {
+    c.next();
+    range = { kind: 'divisors', of: parseExpr(c) };
+  } else {
+    fail('unexpected-token', `expected '=' or '|' after the variable of ${op}, found ${describe(sep)}`, sep.span, usage);
+  }
+  c.expectPunct(',', `after the range of ${op}`);
+  const body = parseExpr(c);
+  const close = c.expectPunct(')', `to close ${op}`);
+  const kids = range.kind === 'range' ? [range.from, ...(range.to === null ? [] : [range.to])] : [range.of];
+  return built({ kind: 'series', op, variable, range, body, nameSpan: t.span, span: joinSpans(t.span, close.span) }, body, ...kids);
+}
+
+/** limit = 'limit' '(' NAME '->' expr ',' expr ')'   ('->' is '-' then '>') */
+function parseLimit(c: Cursor, t: Token): SyntaxExpr {
+  const usage = 'limit(s -> a, f)';
+  c.next(); // '('
+  const v = c.next();
+  if (v.kind !== 'ident') fail('unexpected-token', `expected the variable after limit(, found ${describe(v)}`, v.span, usage);
+  if (KEYWORDS.has(v.text)) fail('reserved-word', `'${v.text}' is a keyword, not a variable`, v.span);
+  if (!isPunct(c.peek(), '-') || !isPunct(c.peek(1), '>')) fail('unexpected-token', `expected '->' after the variable of limit, found ${describe(c.peek())}`, c.peek().span, usage);
+  c.next();
+  c.next();
+  const at = parseExpr(c);
+  c.expectPunct(',', 'after the point of limit');
+  const body = parseExpr(c);
+  const close = c.expectPunct(')', 'to close limit');
+  return built({ kind: 'limit', variable: { name: v.text, span: v.span }, at, body, nameSpan: t.span, span: joinSpans(t.span, close.span) }, body, at);
+}
+
+/** A literal integer (possibly negated) as a number, or null when the bound is computed. */
+function literalInt(s: SyntaxExpr): number | null | 'non-integer' {
+  if (s.kind === 'neg') {
+    const r = literalInt(s.arg);
+    return typeof r === 'number' ? -r : r;
+  }
+  if (s.kind !== 'num') return null;
+  if (s.imaginary) return 'non-integer';
+  const v = Number(s.digits);
+  return Number.isInteger(v) ? v : 'non-integer';
+}
+
+function checkLiteralRange(from: SyntaxExpr, to: SyntaxExpr | null, toSpan: Span): void {
+  const a = literalInt(from);
+  if (a === 'non-integer') fail('bad-range', 'the start of the range must be an integer', from.span);
+  const b = to === null ? null : literalInt(to);
+  if (b === 'non-integer') fail('bad-range', 'the end of the range must be an integer or inf', toSpan);
+  if (typeof a === 'number' && typeof b === 'number') {
+    if (b < a) fail('bad-range', `the range ${a}..${b} is empty`, toSpan, 'the end must be at least the start (a range computed at evaluation may be empty: sum 0, prod 1)');
+    if (b - a + 1 > MAX_SERIES_TERMS) fail('bad-range', `the range ${a}..${b} has more than ${MAX_SERIES_TERMS} terms`, toSpan, 'use inf for a convergent series');
+  }
 }
 
 /** expr { ',' expr } up to (not including) the closer. */

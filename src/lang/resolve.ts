@@ -13,6 +13,10 @@
  * - A claim sees its parameters (for s in ...), and a, b, c, d and g(...) when it has a group
  *   clause `for g in ...`. Bound names must not clash with built-ins, constants, tau and its
  *   parts, lets, or each other.
+ * - sum/prod/limit bind their variable (a `boundVar`) in their body only; the bounds (the
+ *   point of a limit) are resolved outside it. The variable must not clash with a built-in
+ *   name, a let, a claim or let parameter, the group (g, and a, b, c, d under a group clause;
+ *   without one, d is free: sum(d | n, ...)) or an enclosing series' variable.
  * - Clause values (box corners, list elements, points, region bounds) must be constant.
  * Expansion: a let call is replaced by its body with the arguments substituted, kept in a
  * `letCall` node; equal calls (same let, same argument nodes) share one expansion, so
@@ -33,13 +37,16 @@ import type {
   Region,
   RegionBound,
   RegionQuantity,
+  Limit,
+  Series,
+  SeriesRange,
   Settings,
   Span,
   TauRef,
 } from './ast.js';
 import { diagnostic, type Diagnostic, type DiagnosticCode } from './diagnostics.js';
 import { dependsOnTau, tooDeep } from './depends.js';
-import { BUILTINS, CONSTANTS, MAX_OPERATOR_DEPTH, OPERATORS, PLANNED, TAU_PARTS, isBuiltin, isConstant, isOperator, isTauPart, nearestNames } from './names.js';
+import { BUILTINS, CONSTANTS, MAX_OPERATOR_DEPTH, OPERATORS, PLANNED, SERIES, TAU_PARTS, isBuiltin, isSeriesName, isConstant, isOperator, isTauPart, nearestNames } from './names.js';
 import type { ClauseSyntax, ConditionSyntax, Item, SettingSyntax, SyntaxExpr } from './syntax.js';
 
 type LetItem = Extract<Item, { kind: 'let' }>;
@@ -49,7 +56,7 @@ const GROUP_ENTRIES: readonly GroupEntryName[] = ['a', 'b', 'c', 'd'];
 
 /** Names no binding may take. */
 function isGlobalName(name: string): boolean {
-  return isBuiltin(name) || isOperator(name) || isConstant(name) || isTauPart(name) || name === 'tau';
+  return isBuiltin(name) || isOperator(name) || isConstant(name) || isTauPart(name) || name === 'tau' || isSeriesName(name);
 }
 
 interface Scope {
@@ -63,6 +70,8 @@ interface Scope {
   group: string | null;
   /** What tau, x, y, taubar, q refer to: the argument of a let's tau parameter, or null for the claim's tau. */
   tau: Expr | null;
+  /** Variables of the enclosing sums and products: name -> the series key. */
+  bound?: ReadonlyMap<string, number>;
 }
 
 export function resolveFile(items: Item[], file: string): { ast: FileAst; diagnostics: Diagnostic[] } {
@@ -77,6 +86,7 @@ class Resolver {
   private readonly expansionCache = new Map<string, Expr>();
   private readonly nodeIds = new WeakMap<Expr, number>();
   private nextId = 0;
+  private nextSeriesKey = 0;
   /** Set when a use of a broken let was met while resolving the current claim. */
   private usedBroken = false;
   /** While let bodies are checked one by one, let calls are validated but not expanded. */
@@ -310,7 +320,72 @@ class Resolver {
         return this.name(s.name, s.span, scope);
       case 'call':
         return this.call(s, scope);
+      case 'series':
+        return this.series(s, scope);
+      case 'limit':
+        return this.limit(s, scope);
     }
+  }
+
+  /** The name a series or limit variable clashes with, or null (rules at series()). */
+  private boundClash(v: string, scope: Scope): string | null {
+    return isGlobalName(v)
+      ? 'a built-in name'
+      : PLANNED[v] !== undefined
+        ? 'a planned operator'
+        : this.lets.has(v)
+          ? 'a let'
+          : scope.params.has(v)
+            ? 'a parameter of the claim'
+            : scope.letArgs?.has(v) === true
+              ? `a parameter of let ${scope.inLet ?? ''}`
+              : scope.bound?.has(v) === true
+                ? 'the variable of an enclosing sum, product or limit'
+                : scope.group !== null && (v === scope.group || (GROUP_ENTRIES as readonly string[]).includes(v))
+                  ? 'the group element or its entries a, b, c, d'
+                  : null;
+  }
+
+  /** limit(s -> a, f): a in the enclosing scope, f with s bound (same clash rules as a series). */
+  private limit(s: Extract<SyntaxExpr, { kind: 'limit' }>, scope: Scope): Expr | null {
+    const v = s.variable.name;
+    const at = this.expr(s.at, scope);
+    const clash = this.boundClash(v, scope);
+    const key = this.nextSeriesKey++;
+    const bound = new Map(scope.bound ?? []);
+    bound.set(v, key);
+    const body = this.expr(s.body, { ...scope, bound });
+    if (clash !== null) return this.report('duplicate-name', `the limit variable ${v} clashes with ${clash}`, s.variable.span, 'choose another name');
+    if (at === null || body === null) return null;
+    const node: Limit = { kind: 'limit', variable: v, key, at, body, nameSpan: s.nameSpan, span: s.span };
+    return node;
+  }
+
+  /**
+   * sum/prod: the bounds in the enclosing scope, the body with the variable bound. The
+   * variable must not clash with a built-in, a let, a parameter (of the claim or the let),
+   * the group (g, and a, b, c, d under a group clause) or an enclosing series' variable.
+   */
+  private series(s: Extract<SyntaxExpr, { kind: 'series' }>, scope: Scope): Expr | null {
+    const v = s.variable.name;
+    let range: SeriesRange | null = null;
+    if (s.range.kind === 'range') {
+      const from = this.expr(s.range.from, scope);
+      const to = s.range.to === null ? null : this.expr(s.range.to, scope);
+      if (from !== null && (s.range.to === null || to !== null)) range = { kind: 'range', from, to };
+    } else {
+      const of = this.expr(s.range.of, scope);
+      if (of !== null) range = { kind: 'divisors', of };
+    }
+    const clash = this.boundClash(v, scope);
+    const key = this.nextSeriesKey++;
+    const bound = new Map(scope.bound ?? []);
+    bound.set(v, key);
+    const body = this.expr(s.body, { ...scope, bound });
+    if (clash !== null) return this.report('duplicate-name', `the ${s.op} variable ${v} clashes with ${clash}`, s.variable.span, 'choose another name');
+    if (range === null || body === null) return null;
+    const node: Series = { kind: 'series', op: s.op, variable: v, key, range, body, nameSpan: s.nameSpan, span: s.span };
+    return node;
   }
 
   private tauNode(scope: Scope, span: Span): Expr {
@@ -320,6 +395,11 @@ class Resolver {
   }
 
   private name(name: string, span: Span, scope: Scope): Expr | null {
+    const key = scope.bound?.get(name);
+    if (key !== undefined) return { kind: 'boundVar', name, key, span };
+    if (name === 'inf') return this.report('bad-range', 'inf may only end the range of a sum or product', span, 'sum(n = 1..inf, f)');
+    if (name === 'limit') return this.report('not-a-value', 'limit is a construct, not a value', span, 'limit(s -> a, f)');
+    if (name === 'sum' || name === 'prod') return this.report('not-a-value', `${name} is a ${name === 'sum' ? 'sum' : 'product'}`, span, SERIES[name].split(':')[0]);
     const letArg = scope.letArgs?.get(name);
     if (letArg !== undefined) return letArg;
     if (scope.params.has(name)) return { kind: 'param', name, span };
@@ -367,6 +447,7 @@ class Resolver {
     }
     const candidates: string[] = [...Object.keys(BUILTINS), ...Object.keys(OPERATORS), ...Object.keys(CONSTANTS), ...Object.keys(TAU_PARTS), 'tau', ...this.lets.keys(), ...scope.params];
     if (scope.letArgs !== null) candidates.push(...scope.letArgs.keys());
+    if (scope.bound !== undefined) candidates.push(...scope.bound.keys());
     if (scope.group !== null) candidates.push(scope.group, ...GROUP_ENTRIES);
     const near = nearestNames(name, candidates);
     const meant = near.length > 0 ? `did you mean ${near.map((n) => `'${n}'`).join(', ')}?` : undefined;
@@ -676,6 +757,18 @@ function collectCalls(s: SyntaxExpr, f: (name: string) => void): void {
     case 'binary':
       collectCalls(s.left, f);
       collectCalls(s.right, f);
+      return;
+    case 'limit':
+      collectCalls(s.at, f);
+      collectCalls(s.body, f);
+      return;
+    case 'series':
+      collectCalls(s.body, f);
+      if (s.range.kind === 'divisors') collectCalls(s.range.of, f);
+      else {
+        collectCalls(s.range.from, f);
+        if (s.range.to !== null) collectCalls(s.range.to, f);
+      }
   }
 }
 
@@ -714,6 +807,18 @@ function firstNonConstant(root: Expr): Expr | null {
       case 'operator':
         // taken at the environment's tau, or at a let's argument
         return e.at === null || e.frozen.length > 0 ? e : walk(e.at) === null ? null : e;
+      case 'boundVar':
+        return null;
+      case 'limit':
+        return walk(e.at) ?? walk(e.body);
+      case 'series': {
+        const parts = e.range.kind === 'divisors' ? [e.range.of, e.body] : [e.range.from, ...(e.range.to === null ? [] : [e.range.to]), e.body];
+        for (const p of parts) {
+          const r = walk(p);
+          if (r !== null) return r;
+        }
+        return null;
+      }
     }
   };
   return walk(root);

@@ -11,7 +11,18 @@ export type SyntaxExpr =
   | { kind: 'name'; name: string; span: Span }
   | { kind: 'call'; name: string; nameSpan: Span; args: SyntaxExpr[]; span: Span }
   | { kind: 'neg'; arg: SyntaxExpr; span: Span }
-  | { kind: 'binary'; op: '+' | '-' | '*' | '/' | '^'; left: SyntaxExpr; right: SyntaxExpr; span: Span };
+  | { kind: 'binary'; op: '+' | '-' | '*' | '/' | '^'; left: SyntaxExpr; right: SyntaxExpr; span: Span }
+  | { kind: 'limit'; variable: Named; at: SyntaxExpr; body: SyntaxExpr; nameSpan: Span; span: Span }
+  | {
+      kind: 'series';
+      op: 'sum' | 'prod';
+      variable: Named;
+      /** to null: inf */
+      range: { kind: 'range'; from: SyntaxExpr; to: SyntaxExpr | null; toSpan: Span } | { kind: 'divisors'; of: SyntaxExpr };
+      body: SyntaxExpr;
+      nameSpan: Span;
+      span: Span;
+    };
 
 export type SettingName = 'digits' | 'samples' | 'seed' | 'ymin';
 

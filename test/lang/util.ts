@@ -59,5 +59,11 @@ export function sexpr(e: Expr): string {
       return `(let ${e.name} ${sexpr(e.body)})`;
     case 'operator':
       return `(${e.op}${e.weight === null ? '' : ' ' + sexpr(e.weight)} ${sexpr(e.arg)}${e.at === null ? '' : ' @' + sexpr(e.at)})`;
+    case 'boundVar':
+      return `%${e.name}`;
+    case 'series': {
+      const r = e.range.kind === 'divisors' ? `| ${sexpr(e.range.of)}` : `${sexpr(e.range.from)}..${e.range.to === null ? 'inf' : sexpr(e.range.to)}`;
+      return `(${e.op} ${e.variable} ${r} ${sexpr(e.body)})`;
+    }
   }
 }
