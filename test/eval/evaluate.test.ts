@@ -12,36 +12,14 @@ import { withDigits } from '../../src/numeric/precision.js';
 import { Random } from '../../src/numeric/random.js';
 import { EvalError, evaluate, evaluateConstant, evaluateConstantWithError, evaluateRegion, inRegion, type EvalEnv } from '../../src/eval/evaluate.js';
 import { eq, expr, parse } from '../lang/util.js';
+import { evalAt, evalError } from './util.js';
 
 const TAU = Complex.of('0.1234', '1.1');
+const { ev, agree } = evalAt(TAU);
 
-/** Evaluates `e` at P digits (default env: tau = TAU). */
-function ev(e: string, P = 30, env: Partial<EvalEnv> = {}, clauses: string[] = []): { value: Complex; scale: Decimal } {
-  const x = expr(e, clauses);
-  return withDigits(P, () => evaluate(x, { tau: TAU, ...env }));
-}
 /** |a - b| relative to max(|b|, 1e-300), at P + 20 digits. */
 function rel(a: Complex, b: Complex, P: number): number {
   return withDigits(P + 20, () => a.sub(b).abs().div(Decimal.max(b.abs(), '1e-300')).toNumber());
-}
-/** Digits of agreement of the two sides of `lhs = rhs`, evaluated at P digits. */
-function agree(equation: string, P = 30, env: Partial<EvalEnv> = {}, clauses: string[] = []): number {
-  const c = eq(equation, clauses);
-  return withDigits(P, () => {
-    const l = evaluate(c.lhs, { tau: TAU, ...env }).value;
-    const r = evaluate(c.rhs, { tau: TAU, ...env }).value;
-    const d = withDigits(P + 20, () => l.sub(r).abs().div(Decimal.max(l.abs(), r.abs())).toNumber());
-    return d === 0 ? Infinity : -Math.log10(d);
-  });
-}
-function evalError(f: () => unknown): EvalError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof EvalError) return e;
-    throw e;
-  }
-  throw new Error('no error');
 }
 
 describe('outside references', () => {

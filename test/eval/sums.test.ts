@@ -9,32 +9,11 @@ import { EvalError, evaluate, type EvalEnv } from '../../src/eval/evaluate.js';
 import { INFINITE_SERIES_BUDGET } from '../../src/lang/names.js';
 import { divisors } from '../../src/eval/series.js';
 import { eq, expr } from '../lang/util.js';
+import { evalAt, evalError } from './util.js';
 
 const TAU = Complex.of('0.1234', '0.6');
+const { ev, agree } = evalAt(TAU);
 
-function ev(e: string, P = 30, env: Partial<EvalEnv> = {}, clauses: string[] = []): { value: Complex; scale: Decimal } {
-  const x = expr(e, clauses);
-  return withDigits(P, () => evaluate(x, { tau: TAU, ...env }));
-}
-/** Digits of agreement of the two sides of `lhs = rhs` at P digits. */
-function agree(equation: string, P = 30, env: Partial<EvalEnv> = {}, clauses: string[] = []): number {
-  const c = eq(equation, clauses);
-  return withDigits(P, () => {
-    const l = evaluate(c.lhs, { tau: TAU, ...env }).value;
-    const r = evaluate(c.rhs, { tau: TAU, ...env }).value;
-    const d = withDigits(P + 20, () => l.sub(r).abs().div(Decimal.max(l.abs(), r.abs())).toNumber());
-    return d === 0 ? Infinity : -Math.log10(d);
-  });
-}
-function evalError(f: () => unknown): EvalError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof EvalError) return e;
-    throw e;
-  }
-  throw new Error('expected an EvalError');
-}
 
 describe('finite sums and products', () => {
   it('exact integer sums: Gauss sum_{n=1}^{100} n = 5050; sum n^2 to 10 = 385', () => {
