@@ -208,7 +208,12 @@ export function sincos(b: bigint, F: number): [bigint, bigint] {
   }
   const sn = S >> BigInt(G);
   const cs = (C + o) >> BigInt(G);
-  switch (Number(((q % 4n) + 4n) % 4n)) {
+  return rotateQuadrant(sn, cs, Number(((q % 4n) + 4n) % 4n));
+}
+
+/** [sin, cos] of r + q pi/2 from [sin r, cos r] (q taken mod 4). */
+export function rotateQuadrant(sn: bigint, cs: bigint, q: number): [bigint, bigint] {
+  switch (((q % 4) + 4) % 4) {
     case 0:
       return [sn, cs];
     case 1:

@@ -320,16 +320,7 @@ export function sinCosFx(b: bigint, F: number): [bigint, bigint] {
   const d = BigInt(W - F);
   cs >>= d;
   sn >>= d;
-  switch (((q % 4) + 4) % 4) {
-    case 0:
-      return [sn, cs];
-    case 1:
-      return [cs, -sn];
-    case 2:
-      return [-sn, -cs];
-    default:
-      return [-cs, sn];
-  }
+  return fx.rotateQuadrant(sn, cs, q);
 }
 
 /** e^z as [w, k]: e^z = (w / 2^F) 2^k, full relative precision whatever Re z. */

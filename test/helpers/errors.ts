@@ -10,3 +10,14 @@ export function errorCode(f: () => unknown): string | undefined {
   }
   return undefined;
 }
+
+/** `code:fn` of the ModvetError that f throws (the function it names too), or undefined. */
+export function errorCodeAndFn(f: () => unknown): string | undefined {
+  try {
+    f();
+  } catch (e) {
+    if (e instanceof ModvetError) return `${e.code}:${e.fn}`;
+    throw e;
+  }
+  return undefined;
+}

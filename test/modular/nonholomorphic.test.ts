@@ -12,17 +12,10 @@ import { dirichletBeta } from '../../src/special/dirichletBeta.js';
 import { makeGroup } from '../../src/groups/subgroups.js';
 import { randomElement, randomInFundamental } from '../../src/groups/sample.js';
 import { ulpError } from '../helpers/reference.js';
+import { errorCode as codeOf } from '../helpers/errors.js';
 
 const fmt = (z: Complex) => z.toString(20);
 
-function codeOf(f: () => unknown): string | undefined {
-  try {
-    f();
-  } catch (e) {
-    return e instanceof ModvetError ? e.code : 'not a ModvetError';
-  }
-  return undefined;
-}
 
 describe('Fourier method against the Epstein method at 40 digits', () => {
   const rng = new Random('nonholomorphic-a-vs-b');

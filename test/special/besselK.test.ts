@@ -9,6 +9,7 @@ import { withDigits } from '../../src/numeric/precision.js';
 import { Random } from '../../src/numeric/random.js';
 import { type BesselKMethod, besselK, besselKMultiples, besselKUsing } from '../../src/special/besselK.js';
 import { referenceCases, ulpError } from '../helpers/reference.js';
+import { errorCode as codeOf } from '../helpers/errors.js';
 
 const PRECISIONS = [30, 50, 100];
 const METHODS: BesselKMethod[] = ['auto', 'series', 'quadrature'];
@@ -18,14 +19,6 @@ function errorAgainst(a: Complex, b: Complex, scale: Decimal, P: number): number
   return withDigits(P + 20, () => a.sub(b).abs().div(new Decimal(10).pow(scale.e - P + 1)).toNumber());
 }
 
-function codeOf(f: () => unknown): string | undefined {
-  try {
-    f();
-  } catch (e) {
-    return e instanceof ModvetError ? e.code : 'not a ModvetError';
-  }
-  return undefined;
-}
 
 describe('K_nu(x) against mpmath', () => {
   // reference values: test/reference/generate.py with mpmath 1.2.1 (besselk) at 200 digits;

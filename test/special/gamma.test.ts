@@ -11,6 +11,7 @@ import * as fx from '../../src/numeric/fixed.js';
 import * as fc from '../../src/numeric/fixedComplex.js';
 import { clogFx, expSplitFx, gamma, gammaFx, logFx, logGamma, logGammaFx, sinCosFx } from '../../src/special/gamma.js';
 import { referenceCases, referenceLibrary, ulpError } from '../helpers/reference.js';
+import { errorCodeAndFn as codeOf } from '../helpers/errors.js';
 
 const PRECISIONS = [30, 50, 100];
 
@@ -25,15 +26,6 @@ function agree(P: number, lhs: () => Complex, rhs: () => Complex, label: string)
   expect(ulpError(a!, b!, P), label).toBeLessThanOrEqual(1);
 }
 
-function codeOf(f: () => unknown): string | undefined {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof ModvetError) return `${e.code}:${e.fn}`;
-    throw e;
-  }
-  return undefined;
-}
 
 describe(`against ${referenceLibrary}`, () => {
   for (const P of PRECISIONS) {

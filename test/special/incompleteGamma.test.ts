@@ -8,18 +8,10 @@ import { pi } from '../../src/numeric/constants.js';
 import { Random } from '../../src/numeric/random.js';
 import { gammaUpper, gammaUpperScaled } from '../../src/special/incompleteGamma.js';
 import { referenceCases, referenceLibrary, ulpError } from '../helpers/reference.js';
+import { errorCodeAndFn as codeOf } from '../helpers/errors.js';
 
 const PRECISIONS = [30, 50, 100];
 
-function codeOf(f: () => unknown): string | undefined {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof ModvetError) return `${e.code}:${e.fn}`;
-    throw e;
-  }
-  return undefined;
-}
 
 /** x^a e^{-x}, principal branch, at the current precision. */
 function powExp(a: Complex, x: Decimal): Complex {
