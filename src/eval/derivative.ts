@@ -1,6 +1,7 @@
 /**
  * Differential operators of the claim language (names.ts: lap, dtau, dtaubar, qd, raise,
- * lower, serre), evaluated by finite differences at raised precision.
+ * lower, serre): exact derivatives for elementary operands (symbolic.ts, below), finite
+ * differences at raised precision with an error estimate for everything else.
  *
  * Conventions: tau = x + i y; d/dtau = (1/2)(d_x - i d_y), d/dtaubar = (1/2)(d_x + i d_y);
  * lap = y^2 (d_x^2 + d_y^2) (lap y^s = s(s-1) y^s); qd = (1/(2 pi i)) d/dtau;
@@ -31,7 +32,20 @@
  * Shortcuts proved from the AST (src/lang/depends.ts): an operand that does not depend on
  * tau gives exactly 0 (dtau, dtaubar, lap, qd, lower) or its multiple (raise: (k/y) f;
  * serre: -(k/12) E_2 f); a holomorphic operand has d/dtau = d_x (one direction) and
- * d/dtaubar = lap = lower = 0 exactly. Symbolic differentiation is not used.
+ * d/dtaubar = lap = lower = 0 exactly.
+ *
+ * Elementary operands (symbolic.ts: y^s, tau^3, y exp(2 pi i tau), ...) are differentiated
+ * exactly instead, by nerdamer: d_x^2 f + d_y^2 f (lap) and (1/2)(d_x -+ i d_y) f (the
+ * tau derivatives) as one simplified expression each, d_x f alone for a holomorphic f. The
+ * result, read back into an AST, is evaluated at tau0 like any expression, so its error is
+ * the evaluator's running scale, with no truncation part. nerdamer sees those operands
+ * only, and nothing from a claim is executed as code (symbolic.ts). Because nerdamer
+ * simplifies under real-variable assumptions ((x^2)^s -> x^(2s)) and has known slips, each
+ * symbolic value is checked at the point against the same derivative by the differences
+ * above at CHECK_DIGITS digits (cheaper than the full difference: fewer digits, and the
+ * check's error only has to separate right from wrong). On a mismatch the partials are
+ * tried one by one, each checked likewise; when a check fails, the operand is not
+ * elementary, or nerdamer fails, the derivative is the finite difference above.
  *
  *   applyOperator(node, ctx)   // ctx: evaluate sub-expressions here, or the operand elsewhere
  */
@@ -41,9 +55,10 @@ import { dependsOnTau, isHolomorphic } from '../lang/depends.js';
 import { Complex } from '../numeric/complex.js';
 import { ModvetError } from '../numeric/errors.js';
 import { pi } from '../numeric/constants.js';
-import { withGuard } from '../numeric/precision.js';
+import { withDigits, withGuard } from '../numeric/precision.js';
 import { DEFAULT_Y_MIN } from '../modular/domain.js';
 import { callBuiltin, type Val } from './builtins.js';
+import { symbolicPartial, type SymbolicDerivative } from './symbolic.js';
 
 /** Half-width of the central stencil: order 2 HALF. */
 export const HALF = 2;
@@ -53,6 +68,10 @@ const REFINEMENTS = 2;
 const SIZE_FLOOR = new Decimal('1e-12');
 
 const ZERO = new Decimal(0);
+/** Digits (before the guard) of the finite difference that checks a symbolic value. */
+export const CHECK_DIGITS = 12;
+/** A symbolic value passes when within CHECK_SLACK times the check's error (or target). */
+const CHECK_SLACK = 1000;
 
 export interface OperatorContext {
   /** Evaluates a sub-expression in the current environment (the weight, the point `at`). */
@@ -282,6 +301,10 @@ export function applyOperator(e: Operator, ctx: OperatorContext): Val {
     if (e.op !== 'raise' && e.op !== 'serre') return EXACT_ZERO;
   }
   const d = new Differentiator(ctx, e.arg, t0, e.op);
+  const fd = (dir: Dir, k: 1 | 2, floor: Decimal = ZERO): Partial => d.partial(dir, k, floor);
+  // each partial symbolic when it can be (and checks), else differenced
+  const partial = (dir: Dir, k: 1 | 2, floor: Decimal = ZERO): Partial =>
+    exact(e, d, ctx, k === 1 ? dir : dir === 'x' ? 'xx' : 'yy', () => fd(dir, k)) ?? fd(dir, k, floor);
   // f at t0 (for raise and serre), evaluated in the shifted environment like the rest
   const center = (): Val => (depends ? d.value(Complex.ZERO) : ctx.run(e.arg));
 
@@ -289,11 +312,11 @@ export function applyOperator(e: Operator, ctx: OperatorContext): Val {
   let err: Decimal;
   switch (e.op) {
     case 'lap': {
-      const yy = d.partial('y', 2);
-      const xx = d.partial('x', 2, yy.value.abs());
+      // d_x^2 f + d_y^2 f: as one symbolic sum (nerdamer cancels like terms), else part by part
+      const sum = exact(e, d, ctx, 'lap', () => laplacian(fd)) ?? laplacian(partial);
       const y2 = y0.times(y0);
-      v = xx.value.add(yy.value).scale(y2);
-      err = xx.err.plus(yy.err).times(y2);
+      v = sum.value.scale(y2);
+      err = sum.err.times(y2);
       break;
     }
     case 'dtau':
@@ -307,17 +330,9 @@ export function applyOperator(e: Operator, ctx: OperatorContext): Val {
       let de = ZERO;
       if (depends && !(holo && (e.op === 'dtaubar' || e.op === 'lower'))) {
         const bar = e.op === 'dtaubar' || e.op === 'lower';
-        if (holo) {
-          const dx = d.partial('x', 1);
-          dv = dx.value;
-          de = dx.err;
-        } else {
-          const dy = d.partial('y', 1);
-          const dx = d.partial('x', 1, dy.value.abs());
-          const iy = dy.value.mulI();
-          dv = (bar ? dx.value.add(iy) : dx.value.sub(iy)).scale('0.5');
-          de = dx.err.plus(dy.err).div(2);
-        }
+        const r = holo ? partial('x', 1) : (exact(e, d, ctx, bar ? 'taubar' : 'tau', () => wirtinger(fd, bar)) ?? wirtinger(partial, bar));
+        dv = r.value;
+        de = r.err;
       }
       ({ v, err } = finish(e.op, dv, de, y0, weight, center, t0, ctx));
       break;
@@ -327,6 +342,60 @@ export function applyOperator(e: Operator, ctx: OperatorContext): Val {
   // the point's own error moves the result by about |v| delta / y0
   if (atVal !== null && !atVal.s.isZero()) s = s.plus(v.abs().times(atVal.s).div(y0));
   return { v, s };
+}
+
+type PartialOf = (dir: Dir, k: 1 | 2, floor?: Decimal) => Partial;
+
+/** d_x^2 f + d_y^2 f from two partials (the x part accurate relative to the sum). */
+function laplacian(p: PartialOf): Partial {
+  const yy = p('y', 2);
+  const xx = p('x', 2, yy.value.abs());
+  return { value: xx.value.add(yy.value), err: xx.err.plus(yy.err), size: Decimal.max(xx.size, yy.size) };
+}
+
+/** df/dtau = (1/2)(d_x - i d_y) f, or df/dtaubar = (1/2)(d_x + i d_y) f (bar). */
+function wirtinger(p: PartialOf, bar: boolean): Partial {
+  const dy = p('y', 1);
+  const dx = p('x', 1, dy.value.abs());
+  const iy = dy.value.mulI();
+  const value = (bar ? dx.value.add(iy) : dx.value.sub(iy)).scale('0.5');
+  return { value, err: dx.err.plus(dy.err).div(2), size: Decimal.max(dx.size, dy.size) };
+}
+
+/**
+ * A derivative of an elementary operand, exactly (symbolic.ts), evaluated at t0; its error
+ * is the evaluation's own. Null (difference it instead) when there is no symbolic form, its
+ * evaluation fails, or it disagrees with `check`, the same derivative by differences at
+ * CHECK_DIGITS digits (module header).
+ */
+function exact(e: Operator, d: Differentiator, ctx: OperatorContext, which: SymbolicDerivative, check: () => Partial): Partial | null {
+  const ast = symbolicPartial(e, which);
+  if (ast === null) return null;
+  let f: Val;
+  try {
+    f = ctx.evalAt(ast, d.t0);
+  } catch {
+    // e.g. a division by zero nerdamer's form has and the operand has not: difference it
+    return null;
+  }
+  const err = d.errorOf(f);
+  const P = Decimal.precision;
+  const checkP = Math.min(P, CHECK_DIGITS + ctx.guard);
+  let ok: boolean;
+  try {
+    ok = withDigits(checkP, () => {
+      const c = check();
+      // the check's error bound, or its target (the units partial() aims at), whichever is larger
+      const unit = new Decimal(10).pow(ctx.guard - checkP).times(Decimal.max(c.value.abs(), c.size.times(SIZE_FLOOR)));
+      const tol = Decimal.max(c.err, unit).times(CHECK_SLACK);
+      return f.v.sub(c.value).abs().lte(tol);
+    });
+  } catch (err) {
+    // a difference that does not converge cannot confirm: the full difference reports it
+    if (err instanceof ModvetError) return null;
+    throw err;
+  }
+  return ok ? { value: f.v, err, size: ZERO } : null;
 }
 
 /** From the tau derivative (value dv, error de) to the operator's result. */
