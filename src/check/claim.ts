@@ -30,6 +30,8 @@ export interface Sample {
 export interface SideValue {
   value: Complex;
   scale: Decimal;
+  /** Set when a truncated construct (a lattice sum) limited the value to `rel` relative accuracy. */
+  limit?: { rel: Decimal; by: string };
 }
 
 export interface CheckableClaim {

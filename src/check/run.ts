@@ -42,6 +42,8 @@ export interface ClaimResult {
   reason?: string;
   /** The worst sample: the largest residual. */
   worst?: SampleReport;
+  /** What limited `digits` below the requested digits (a holding claim), e.g. 'a lattice sum'. */
+  limitedBy?: string;
 }
 
 const ESCALATION_GUARD = 5;
@@ -133,7 +135,10 @@ export function checkClaim(claim: CheckableClaim, opts: CheckOptions): ClaimResu
     if (worst === undefined || r.assessment.residual.gt(worst.assessment.residual)) worst = r;
   }
   const digits = verdict === 'refuted' || unfinished > 0 || reports.length === 0 ? 0 : Math.min(...reports.map((r) => r.assessment.digits));
+  // the sample that set the digits says what limited them
+  const limitedBy = verdict === 'holds' ? reports.find((r) => r.assessment.digits === digits)?.assessment.limitedBy : undefined;
   return done({
+    ...(limitedBy !== undefined ? { limitedBy } : {}),
     verdict,
     digits,
     samples: reports.length + unfinished,

@@ -16,7 +16,7 @@ import { MAX_DIGITS, withDigits } from '../numeric/precision.js';
 import { parseSource } from '../lang/parser.js';
 import { renderDiagnostic, type Diagnostic } from '../lang/diagnostics.js';
 import type { Expr } from '../lang/ast.js';
-import { evaluate, evaluateConstant } from '../eval/evaluate.js';
+import { evaluate, evaluateConstant, type EvalResult } from '../eval/evaluate.js';
 import { asModvetError } from '../check/fromAst.js';
 import { digitsOption, UsageError } from './options.js';
 import type { Streams } from './program.js';
@@ -51,6 +51,8 @@ function usesTau(e: Expr): boolean {
       );
     case 'limit':
       return usesTau(e.at) || usesTau(e.body);
+    case 'lattice':
+      return usesTau(e.body);
     case 'moebius':
     case 'operator':
       // operators act on tau; the moebius action needs the claim's group element
@@ -105,7 +107,7 @@ export function runEval(expression: string, flags: EvalFlags, io: Streams): numb
     throw new UsageError('the expression uses tau: give a point, e.g. --at "tau=0.1+1.2i"');
   }
   const yMin = flags.ymin !== undefined ? Number(flags.ymin) : undefined;
-  const at = (P: number): { value: Complex; scale: Decimal } =>
+  const at = (P: number): EvalResult =>
     withDigits(P, () => {
       const params = new Map<string, Complex>();
       for (const p of claim.params) if (p.kind === 'list') params.set(p.name, evaluateConstant(p.values[0]!));
@@ -129,6 +131,8 @@ export function runEval(expression: string, flags: EvalFlags, io: Streams): numb
       io.out(flags.json ? JSON.stringify({ re: '0', im: '0' }) + '\n' : '0 + 0 i\n');
       return 0;
     }
+    const limit = r2.limit ?? r1.limit;
+    if (limit !== undefined && limit.rel.gt(new Decimal(10).pow(-N - 1))) return printLimited(r2.value, limit, N, flags, io);
     const a = roundComplex(r1.value, N);
     const b = roundComplex(r2.value, N);
     if (a.equals(b)) {
@@ -139,6 +143,24 @@ export function runEval(expression: string, flags: EvalFlags, io: Streams): numb
     if (p1 >= MAX_DIGITS) break;
   }
   throw new ModvetError('precision', 'eval', `the value could not be rounded to ${N} digits: evaluations at different precisions keep disagreeing`);
+}
+
+/**
+ * A value whose accuracy a truncated construct limited (a lattice sum: relative error at
+ * most limit.rel): printed to the most digits D at which every point within the error
+ * rounds alike, so each printed digit is right.
+ */
+function printLimited(v: Complex, limit: { rel: Decimal; by: string }, N: number, flags: EvalFlags, io: Streams): number {
+  const err = limit.rel.times(v.abs());
+  const corners = [Complex.of(err), Complex.of(err.neg()), Complex.of(0, err), Complex.of(0, err.neg())].map((d) => v.add(d));
+  for (let D = Math.min(N, Math.floor(-Math.log10(limit.rel.toNumber()))); D >= 1; D--) {
+    const a = roundComplex(v, D);
+    if (!corners.every((c) => roundComplex(c, D).equals(a))) continue;
+    io.err(`note: limited by ${limit.by} to a relative accuracy of ${limit.rel.toSD(2).toString()}: printed to ${D} digits (${N} requested)\n`);
+    io.out(flags.json ? JSON.stringify({ re: a.re.toString(), im: a.im.toString() }) + '\n' : formatComplex(a) + '\n');
+    return 0;
+  }
+  throw new ModvetError('precision', 'eval', `${limit.by} reached a relative accuracy of only ${limit.rel.toSD(2).toString()}: no digit can be printed`);
 }
 
 /** Diagnostics inside the expression are shown against the expression as the user typed it. */

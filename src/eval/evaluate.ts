@@ -39,6 +39,14 @@
  *       argument lost digits, the measured effect of the arguments' errors.
  *   The returned scale also counts the final rounding (+ |value|). A value carries about
  *   log10(|value| / (10^-P scale)) correct digits; when that is below 1 it is noise.
+ * - Truncated constructs: a lattice sum (lattice.ts) is accurate only to the relative
+ *   error its extrapolation reached, far above 10^-P. That error is not put into the scale
+ *   (it would pass for cancellation); the evaluation records the largest such relative
+ *   error met anywhere in the expression and returns it as `limit`, with what caused it.
+ *   It carries over to the result relative to the result's scale (exact for products and
+ *   quotients; an upper bound for sums, whose scale counts the summands). A lattice sum
+ *   inside a differential operator is refused ('convergence'): its error is not smooth
+ *   enough in tau to difference.
  * - Text is never executed: numbers are parsed by decimal.js from the literal text, exactly.
  * - Failures (a pole, a domain error from a built-in, division by zero, a non-integer where
  *   an integer is required) throw EvalError with the span of the failing node; errors
@@ -47,7 +55,7 @@
  *   withDigits(40, () => evaluate(claim.lhs, { tau: Complex.of('0.1', '1.2') }).value)
  */
 import { Decimal } from 'decimal.js';
-import type { Comparison, ConstantName, Expr, Operator, Region, RegionQuantity, Series, Span, TauPartName } from '../lang/ast.js';
+import type { Comparison, ConstantName, Expr, LatticeSum, Operator, Region, RegionQuantity, Series, Span, TauPartName } from '../lang/ast.js';
 import { freeBoundKeys } from '../lang/depends.js';
 import type { Mat2 } from '../groups/matrix.js';
 import { Complex } from '../numeric/complex.js';
@@ -59,6 +67,8 @@ import { callBuiltin, type Val } from './builtins.js';
 import { applyOperator } from './derivative.js';
 import { evalSeries } from './series.js';
 import { evalLimit } from './limit.js';
+import { evalLattice } from './lattice.js';
+import { zeta } from '../special/zeta.js';
 
 /** Extra digits the whole expression is evaluated with (see the header). */
 export const EVAL_GUARD_DIGITS = 5;
@@ -87,6 +97,20 @@ export interface EvalEnv {
 export interface EvalResult {
   value: Complex;
   scale: Decimal;
+  /** The relative accuracy a truncated construct limited the value to (module header). */
+  limit?: { rel: Decimal; by: string };
+}
+
+/** The truncation errors met in one evaluation (shared by all its walkers). */
+interface TruncationLog {
+  rel: Decimal;
+  by: string;
+  /** Inside a differential operator's shifted walks: lattice sums are refused there. */
+  inOperator: boolean;
+}
+
+function newLog(inOperator = false): TruncationLog {
+  return { rel: ZERO, by: '', inOperator };
 }
 
 /** 'unbound': the environment lacks tau, a parameter or the group (a caller's bug). */
@@ -110,9 +134,12 @@ export class EvalError extends Error {
 
 /** Evaluates at the precision in force (module header). */
 export function evaluate(expr: Expr, env: EvalEnv): EvalResult {
-  const raw = withGuard(EVAL_GUARD_DIGITS, () => walk(new Walker(env), expr));
+  const log = newLog();
+  const raw = withGuard(EVAL_GUARD_DIGITS, () => walk(new Walker(env, NO_BINDINGS, null, -1, log), expr));
   const value = raw.v.round();
-  return { value, scale: raw.s.plus(value.abs()).toSD(8) };
+  const out: EvalResult = { value, scale: raw.s.plus(value.abs()).toSD(8) };
+  if (log.rel.gt(0)) out.limit = { rel: log.rel.toSD(3), by: log.by };
+  return out;
 }
 
 /** A constant expression (no tau, parameters or group) at the precision in force. */
@@ -236,6 +263,7 @@ class Walker {
     private readonly bindings: ReadonlyMap<number, Val> = NO_BINDINGS,
     private readonly parent: Walker | null = null,
     private readonly key = -1,
+    private readonly log: TruncationLog = parent?.log ?? newLog(),
   ) {}
 
   /** Fixes a node's value (a frozen let argument of an operator). */
@@ -304,6 +332,8 @@ class Walker {
       }
       case 'series':
         return this.series(e);
+      case 'lattice':
+        return this.lattice(e);
       case 'limit':
         return evalLimit(e, {
           run: (x) => this.run(x),
@@ -335,7 +365,7 @@ class Walker {
       const P = Decimal.precision;
       let m = frozen.get(P);
       if (m === undefined) {
-        const w = new Walker(env);
+        const w = new Walker(env, NO_BINDINGS, null, -1, this.log);
         m = new Map(e.frozen.map((f) => [f, w.run(f)]));
         frozen.set(P, m);
       }
@@ -346,7 +376,7 @@ class Walker {
         run: (x) => this.run(x),
         // the shifted points are exact inputs: the error of tau itself is not differentiated
         evalAt: (x, tau) => {
-          const w = new Walker(env === null ? { tau } : { ...env, tau, tauError: ZERO }, this.bindings);
+          const w = new Walker(env === null ? { tau } : { ...env, tau, tauError: ZERO }, this.bindings, null, -1, newLog(true));
           if (e.frozen.length > 0) for (const [f, v] of frozenAt()) w.seed(f, v);
           return w.run(x);
         },
@@ -374,6 +404,45 @@ class Walker {
     });
   }
 
+  /** A lattice sum (lattice.ts): the body walked per pair, by a walker per row m. */
+  private lattice(e: LatticeSum): Val {
+    if (this.log.inOperator) {
+      throw new EvalError('convergence', e.span, 'sum', 'a lattice sum inside a differential operator is not supported: its truncation error cannot be differenced');
+    }
+    const rows = new Map<number, Walker>();
+    const [km, kn] = e.keys;
+    const r = evalLattice(e, {
+      term: (m, n) => {
+        let row = rows.get(m);
+        if (row === undefined) {
+          const b = new Map(this.bindings);
+          b.set(km, { v: new Complex(m, 0), s: ZERO });
+          row = new Walker(this.env, b, this, km);
+          rows.set(m, row);
+        }
+        const b = new Map(this.bindings);
+        b.set(km, { v: new Complex(m, 0), s: ZERO });
+        b.set(kn, { v: new Complex(n, 0), s: ZERO });
+        return new Walker(this.env, b, row, kn).run(e.body);
+      },
+      zeta: (k) => {
+        try {
+          return zeta(k);
+        } catch (err) {
+          return rethrow(err, e.span, 'zeta');
+        }
+      },
+      fail: (code, span, message) => {
+        throw new EvalError(code, span, 'sum', message);
+      },
+    });
+    if (r.rel.gt(this.log.rel)) {
+      this.log.rel = r.rel;
+      this.log.by = 'a lattice sum';
+    }
+    return { v: r.v, s: r.s };
+  }
+
   private tauPart(part: TauPartName, t: Val, span: Span): Val {
     switch (part) {
       case 'x':
@@ -386,7 +455,7 @@ class Walker {
         const twoPi = pi().times(2);
         const v = this.guarded(span, 'q', () => t.v.scale(twoPi).mulI().exp());
         // exp(w), w = 2 pi i t: |q| (S_w + 1) with S_w = 2 pi (S_t + 2|t|) (pi and the product rounded)
-        return { v, s: v.abs().times(twoPi.times(t.s.plus(t.v.abs().times(2))).plus(1)) };
+        return { v, s: v.absBound().times(twoPi.times(t.s.plus(t.v.absBound().times(2))).plus(1)) };
       }
     }
   }
@@ -416,7 +485,7 @@ class Walker {
     const absZ = z.v.abs();
     const relNum = num.isZero() ? ZERO : a.abs().times(absZ).plus(b.abs()).div(num.abs());
     const relDen = c.abs().times(absZ).plus(d.abs()).div(den.abs());
-    const av = v.abs();
+    const av = v.absBound();
     return { v, s: z.s.div(den2).plus(av.times(relNum.plus(relDen).plus(1))) };
   }
 
@@ -425,16 +494,16 @@ class Walker {
       case '+':
       case '-': {
         const v = op === '+' ? a.v.add(b.v) : a.v.sub(b.v);
-        return { v, s: a.s.plus(b.s).plus(v.abs()) };
+        return { v, s: a.s.plus(b.s).plus(v.absBound()) };
       }
       case '*': {
         const v = a.v.mul(b.v);
-        return { v, s: a.s.times(b.v.abs()).plus(a.v.abs().times(b.s)).plus(v.abs()) };
+        return { v, s: a.s.times(b.v.absBound()).plus(a.v.absBound().times(b.s)).plus(v.absBound()) };
       }
       case '/': {
         const v = this.guarded(span, '/', () => a.v.div(b.v));
-        const av = v.abs();
-        return { v, s: a.s.plus(av.times(b.s)).div(b.v.abs()).plus(av) };
+        const av = v.absBound();
+        return { v, s: a.s.plus(av.times(b.s)).div(b.v.absBound()).plus(av) };
       }
       case '^':
         return this.power(a, b, span);
@@ -443,14 +512,15 @@ class Walker {
 
   private power(a: Val, b: Val, span: Span): Val {
     const v = this.guarded(span, '^', () => a.v.pow(b.v));
-    const av = v.abs();
+    const av = v.absBound();
     if (a.v.isZero()) {
       // 0^n = 0 for Re n > 0: first order, only 0^1 passes the base's error on
       return { v, s: b.v.equals(Complex.ONE) ? a.s : ZERO };
     }
     const isInt = b.s.isZero() && b.v.im.isZero() && b.v.re.isInteger();
-    let s = av.times(b.v.abs()).times(a.s).div(a.v.abs());
-    if (!isInt && !b.s.isZero()) s = s.plus(av.times(a.v.log().abs()).times(b.s));
+    // an exact base (the lattice sums' m tau + n) costs no division
+    let s = a.s.isZero() ? ZERO : av.times(b.v.absBound()).times(a.s).div(a.v.absBound());
+    if (!isInt && !b.s.isZero()) s = s.plus(av.times(a.v.log().absBound()).times(b.s));
     return { v, s: s.plus(av) };
   }
 }

@@ -62,7 +62,7 @@ export type BuiltinName =
   // number theory and special functions
   | 'sigma' | 'bernoulli' | 'zeta' | 'xi' | 'Gamma' | 'beta' | 'K'
   // modular
-  | 'E' | 'G' | 'E2star' | 'eta' | 'Delta' | 'j' | 'theta2' | 'theta3' | 'theta4' | 'Ens' | 'Estar';
+  | 'E' | 'G' | 'E2star' | 'eta' | 'Delta' | 'j' | 'theta2' | 'theta3' | 'theta4' | 'Ens' | 'Estar' | 'EnsSplit' | 'EstarSplit';
 
 export interface NumberLit {
   kind: 'number';
@@ -185,6 +185,22 @@ export interface Series {
   span: Span;
 }
 
+/**
+ * sum((m, n) != (0, 0), body): over the punctured lattice Z^2 minus the origin;
+ * sum(gcd(c, d) = 1, body): over the coprime pairs, both signs ((c, d) and (-c, -d) both
+ * count). Evaluated in src/eval/lattice.ts (square shells, extrapolated).
+ */
+export interface LatticeSum {
+  kind: 'lattice';
+  pairs: 'punctured' | 'coprime';
+  variables: readonly [string, string];
+  /** The BoundVar nodes of the two variables carry these (shared numbering with Series). */
+  keys: readonly [number, number];
+  body: Expr;
+  nameSpan: Span;
+  span: Span;
+}
+
 /** limit(s -> at, body): the limit of body as the bound variable s tends to `at` along the real direction. */
 export interface Limit {
   kind: 'limit';
@@ -200,6 +216,7 @@ export interface Limit {
 export type Expr =
   | Limit
   | Series
+  | LatticeSum
   | BoundVar
   | Operator
   | NumberLit

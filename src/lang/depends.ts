@@ -49,6 +49,8 @@ function children(e: Expr): Expr[] {
       return [];
     case 'limit':
       return [e.at, e.body];
+    case 'lattice':
+      return [e.body];
     case 'series':
       return [...(e.range.kind === 'divisors' ? [e.range.of] : [e.range.from, ...(e.range.to === null ? [] : [e.range.to])]), e.body];
   }
@@ -68,6 +70,7 @@ export function freeBoundKeys(e: Expr): ReadonlySet<number> {
     const acc = new Set<number>();
     for (const c of children(e)) for (const k of freeBoundKeys(c)) acc.add(k);
     if (e.kind === 'series' || e.kind === 'limit') acc.delete(e.key);
+    if (e.kind === 'lattice') for (const k of e.keys) acc.delete(k);
     r = acc.size === 0 ? NO_KEYS : acc;
   }
   boundMemo.set(e, r);
@@ -141,6 +144,10 @@ export function isHolomorphic(e: Expr): boolean {
       case 'series':
         // a uniformly convergent series of holomorphic terms; bounds must not move with tau
         r = isHolomorphic(e.body) && children(e).slice(0, -1).every((c) => !dependsOnTau(c));
+        break;
+      case 'lattice':
+        // an absolutely convergent sum of holomorphic terms (lattice.ts refuses the others)
+        r = isHolomorphic(e.body);
         break;
       case 'operator': {
         // d/dtau and q d/dq keep holomorphy; serre too (E_2 is holomorphic); raise has k/y

@@ -14,7 +14,7 @@
 import { diagnostic, type Diagnostic } from './diagnostics.js';
 import { LineTable, type Span } from './span.js';
 
-export type Punct = '(' | ')' | '[' | ']' | '{' | '}' | ',' | '=' | '+' | '-' | '*' | '/' | '^' | '<' | '<=' | '>' | '>=' | '..' | '|';
+export type Punct = '(' | ')' | '[' | ']' | '{' | '}' | ',' | '=' | '+' | '-' | '*' | '/' | '^' | '<' | '<=' | '>' | '>=' | '..' | '|' | '!=';
 
 export type Token =
   | { kind: 'number'; text: string; digits: string; imaginary: boolean; span: Span; bol: boolean }
@@ -36,7 +36,7 @@ function afterSeriesVariable(tokens: readonly Token[]): boolean {
   return f?.kind === 'ident' && (f.text === 'sum' || f.text === 'prod') && open?.kind === 'punct' && open.text === '(' && v?.kind === 'ident';
 }
 
-const PUNCT2: readonly Punct[] = ['<=', '>=', '..'];
+const PUNCT2: readonly Punct[] = ['<=', '>=', '..', '!='];
 const PUNCT1 = new Set<string>(['(', ')', '[', ']', '{', '}', ',', '=', '+', '-', '*', '/', '^', '<', '>']);
 
 const isDigit = (c: string | undefined): boolean => c !== undefined && c >= '0' && c <= '9';

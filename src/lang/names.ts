@@ -50,6 +50,8 @@ export const BUILTINS: Readonly<Record<BuiltinName, BuiltinSpec>> = {
   theta4: f([1], 'theta4(tau)', 'theta constant sum (-1)^n e^(pi i tau n^2)'),
   Ens: f([2], 'Ens(s, tau)', 'non-holomorphic Eisenstein series, coset sum of Im(gamma tau)^s'),
   Estar: f([2], 'Estar(s, tau)', 'completed xi(2s) Ens(s, tau), Estar(s) = Estar(1 - s)'),
+  EnsSplit: f([2], 'EnsSplit(s, tau)', 'Ens(s, tau) by the Epstein theta splitting, which shares no code with the Fourier method of Ens (slower)'),
+  EstarSplit: f([2], 'EstarSplit(s, tau)', 'Estar(s, tau) by the Epstein theta splitting (independent of Estar\'s Fourier method; slower)'),
 };
 
 export function isBuiltin(name: string): name is BuiltinName {

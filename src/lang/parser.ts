@@ -337,6 +337,7 @@ function parseSeries(c: Cursor, t: Token): SyntaxExpr {
   const op = t.text as 'sum' | 'prod';
   const usage = `${op}(n = 1..inf, expr), ${op}(n = a..b, expr) or ${op}(d | n, expr)`;
   c.next(); // '('
+  if (isPunct(c.peek(), '(') || (c.peek().kind === 'ident' && c.peek().text === 'gcd' && isPunct(c.peek(1), '('))) return parseLattice(c, t);
   const v = c.next();
   if (v.kind !== 'ident') fail('unexpected-token', `expected the ${op}mation variable after ${op}(, found ${describe(v)}`, v.span, usage);
   if (KEYWORDS.has(v.text)) fail('reserved-word', `'${v.text}' is a keyword, not a variable`, v.span);
@@ -364,6 +365,61 @@ function parseSeries(c: Cursor, t: Token): SyntaxExpr {
   const close = c.expectPunct(')', `to close ${op}`);
   const kids = range.kind === 'range' ? [range.from, ...(range.to === null ? [] : [range.to])] : [range.of];
   return built({ kind: 'series', op, variable, range, body, nameSpan: t.span, span: joinSpans(t.span, close.span) }, body, ...kids);
+}
+
+const LATTICE_USAGE = 'sum((m, n) != (0, 0), f) or sum(gcd(c, d) = 1, f)';
+
+/** The pair (NAME, NAME) of a lattice sum; the opening '(' is next. */
+function parsePair(c: Cursor): [Named, Named] {
+  c.expectPunct('(', `to open the pair of variables (${LATTICE_USAGE})`);
+  const names: Named[] = [];
+  for (let k = 0; k < 2; k++) {
+    if (k === 1) c.expectPunct(',', `between the two variables (${LATTICE_USAGE})`);
+    const v = c.next();
+    if (v.kind !== 'ident') fail('unexpected-token', `expected a variable name, found ${describe(v)}`, v.span, LATTICE_USAGE);
+    if (KEYWORDS.has(v.text)) fail('reserved-word', `'${v.text}' is a keyword, not a variable`, v.span);
+    names.push({ name: v.text, span: v.span });
+  }
+  c.expectPunct(')', `to close the pair of variables (${LATTICE_USAGE})`);
+  return [names[0]!, names[1]!];
+}
+
+/** A literal integer token with the given value, else a 'bad-range' diagnostic. */
+function expectLiteral(c: Cursor, value: number, what: string): void {
+  const t = c.next();
+  if (t.kind !== 'number' || t.imaginary || Number(t.digits) !== value) fail('bad-range', `${what} must be ${value}, found ${describe(t)}`, t.span, LATTICE_USAGE);
+}
+
+/**
+ * lattice = 'sum' '(' '(' NAME ',' NAME ')' '!=' '(' 0 ',' 0 ')' ',' expr ')'
+ *         | 'sum' '(' 'gcd' '(' NAME ',' NAME ')' '=' 1 ',' expr ')'
+ * The opening '(' of the sum has been read.
+ */
+function parseLattice(c: Cursor, t: Token): SyntaxExpr {
+  let pairs: 'punctured' | 'coprime';
+  let variables: [Named, Named];
+  if (isPunct(c.peek(), '(')) {
+    pairs = 'punctured';
+    variables = parsePair(c);
+    c.expectPunct('!=', `after the pair: the lattice sum skips the origin (${LATTICE_USAGE})`);
+    c.expectPunct('(', `to open (0, 0) (${LATTICE_USAGE})`);
+    expectLiteral(c, 0, 'the excluded point');
+    c.expectPunct(',', `in (0, 0) (${LATTICE_USAGE})`);
+    expectLiteral(c, 0, 'the excluded point');
+    c.expectPunct(')', `to close (0, 0) (${LATTICE_USAGE})`);
+  } else {
+    pairs = 'coprime';
+    c.next(); // gcd
+    variables = parsePair(c);
+    c.expectPunct('=', `after gcd(c, d) (${LATTICE_USAGE})`);
+    expectLiteral(c, 1, 'the gcd of a coprime pair');
+  }
+  if (variables[0].name === variables[1].name) fail('duplicate-name', `the two variables of the lattice sum are both ${variables[0].name}`, variables[1].span, 'choose two names');
+  if (t.text !== 'sum') fail('bad-range', `${t.text} over a lattice is not supported`, t.span, `only sums run over lattices: ${LATTICE_USAGE}`);
+  c.expectPunct(',', 'after the pairs of the lattice sum');
+  const body = parseExpr(c);
+  const close = c.expectPunct(')', 'to close sum');
+  return built({ kind: 'lattice', pairs, variables, body, nameSpan: t.span, span: joinSpans(t.span, close.span) }, body);
 }
 
 /** limit = 'limit' '(' NAME '->' expr ',' expr ')'   ('->' is '-' then '>') */

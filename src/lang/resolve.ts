@@ -37,6 +37,7 @@ import type {
   Region,
   RegionBound,
   RegionQuantity,
+  LatticeSum,
   Limit,
   Series,
   SeriesRange,
@@ -324,6 +325,8 @@ class Resolver {
         return this.series(s, scope);
       case 'limit':
         return this.limit(s, scope);
+      case 'lattice':
+        return this.lattice(s, scope);
     }
   }
 
@@ -385,6 +388,23 @@ class Resolver {
     if (clash !== null) return this.report('duplicate-name', `the ${s.op} variable ${v} clashes with ${clash}`, s.variable.span, 'choose another name');
     if (range === null || body === null) return null;
     const node: Series = { kind: 'series', op: s.op, variable: v, key, range, body, nameSpan: s.nameSpan, span: s.span };
+    return node;
+  }
+
+  /** A lattice sum: the body with both variables bound (the clash rules of series()). */
+  private lattice(s: Extract<SyntaxExpr, { kind: 'lattice' }>, scope: Scope): Expr | null {
+    const [v1, v2] = s.variables;
+    const clash1 = this.boundClash(v1.name, scope);
+    const clash2 = this.boundClash(v2.name, scope);
+    const keys = [this.nextSeriesKey++, this.nextSeriesKey++] as const;
+    const bound = new Map(scope.bound ?? []);
+    bound.set(v1.name, keys[0]);
+    bound.set(v2.name, keys[1]);
+    const body = this.expr(s.body, { ...scope, bound });
+    if (clash1 !== null) return this.report('duplicate-name', `the lattice variable ${v1.name} clashes with ${clash1}`, v1.span, 'choose another name');
+    if (clash2 !== null) return this.report('duplicate-name', `the lattice variable ${v2.name} clashes with ${clash2}`, v2.span, 'choose another name');
+    if (body === null) return null;
+    const node: LatticeSum = { kind: 'lattice', pairs: s.pairs, variables: [v1.name, v2.name], keys, body, nameSpan: s.nameSpan, span: s.span };
     return node;
   }
 
@@ -762,6 +782,9 @@ function collectCalls(s: SyntaxExpr, f: (name: string) => void): void {
       collectCalls(s.at, f);
       collectCalls(s.body, f);
       return;
+    case 'lattice':
+      collectCalls(s.body, f);
+      return;
     case 'series':
       collectCalls(s.body, f);
       if (s.range.kind === 'divisors') collectCalls(s.range.of, f);
@@ -811,6 +834,8 @@ function firstNonConstant(root: Expr): Expr | null {
         return null;
       case 'limit':
         return walk(e.at) ?? walk(e.body);
+      case 'lattice':
+        return walk(e.body);
       case 'series': {
         const parts = e.range.kind === 'divisors' ? [e.range.of, e.body] : [e.range.from, ...(e.range.to === null ? [] : [e.range.to]), e.body];
         for (const p of parts) {

@@ -13,6 +13,7 @@ export type SyntaxExpr =
   | { kind: 'neg'; arg: SyntaxExpr; span: Span }
   | { kind: 'binary'; op: '+' | '-' | '*' | '/' | '^'; left: SyntaxExpr; right: SyntaxExpr; span: Span }
   | { kind: 'limit'; variable: Named; at: SyntaxExpr; body: SyntaxExpr; nameSpan: Span; span: Span }
+  | { kind: 'lattice'; pairs: 'punctured' | 'coprime'; variables: readonly [Named, Named]; body: SyntaxExpr; nameSpan: Span; span: Span }
   | {
       kind: 'series';
       op: 'sum' | 'prod';

@@ -8,7 +8,8 @@
  *   "claims": [ {
  *     "file": "identities/x.vet", "line": 3, "name": "...", "source": "..." | null,
  *     "equation": "LHS = RHS", "expected": "holds", "verdict": "holds", "ok": true,
- *     "digits": 30, "requested_digits": 30, "samples": 16, "reason": null | "...",
+ *     "digits": 30, "requested_digits": 30, "limited_by": null | "a lattice sum",
+ *     "samples": 16, "reason": null | "...",
  *     "worst": null | { "tau": {"re","im"}, "group": null | {"matrix": [[a,b],[c,d]], "word": "S T"},
  *                       "params": { "s": {"re","im"} }, "lhs": {"re","im"}, "rhs": {"re","im"},
  *                       "residual": "1.2e-31", "precisions": [35, 45] } } ],
@@ -48,6 +49,7 @@ export function jsonReport(
       ok: r.ok,
       digits: r.digits,
       requested_digits: r.requested,
+      limited_by: r.limitedBy ?? null,
       samples: r.samples,
       reason: r.reason ?? null,
       worst:

@@ -32,7 +32,8 @@ export function claimLines(r: ClaimResult, opts: TextOptions): string[] {
   if (r.verdict === 'holds') {
     // where both sides vanish, agreement is measured against the terms that formed them
     const against = r.worst?.assessment.vanishing === true ? ' of the terms (both sides vanish)' : '';
-    lines.push(`          agrees to ${r.digits} digits${against} at the worst of ${r.samples} samples, ${secs} s${expected}`);
+    const limited = r.limitedBy !== undefined ? `, limited by ${r.limitedBy}` : '';
+    lines.push(`          agrees to ${r.digits} digits${against}${limited} at the worst of ${r.samples} samples, ${secs} s${expected}`);
   } else if (r.verdict === 'refuted') {
     const res = r.worst?.assessment.residual.toSD(3).toString() ?? '?';
     lines.push(`          fails: relative residual ${res} at the worst of ${r.samples} samples, ${secs} s${expected}`);
