@@ -13,6 +13,40 @@ import { makeGroup } from '../../src/groups/subgroups.js';
 const side = (re: string, scale = '0') => ({ value: Complex.of(re), scale: new Decimal(scale) });
 const pair = (l: string, r: string, ls = '0', rs = '0') => ({ lhs: side(l, ls), rhs: side(r, rs) });
 
+const limited = (re: string, rel: string) => ({ value: Complex.of(re), scale: new Decimal(0), limit: { rel: new Decimal(rel), by: 'a lattice sum' } });
+
+describe('assessSample with a truncation limit (a lattice sum)', () => {
+  const at = (l: string, r: string, rel: string) => ({ lhs: limited(l, rel), rhs: side(r) });
+  it('agrees within the reached accuracy and reports no more digits than it', () => {
+    withDigits(60, () => {
+      const a = assessSample(at('1.0000000000000000001', '1', '1e-15'), at('1.0000000000000000001', '1', '1e-15'), 30);
+      expect(a.outcome).toBe('agree');
+      expect(a.digits).toBe(15);
+      expect(a.limitedBy).toBe('a lattice sum');
+    });
+  });
+  it('is undecided when the residual is above the accuracy but not far above it', () => {
+    withDigits(60, () => {
+      const a = assessSample(at('1.00000000000001', '1', '1e-15'), at('1.00000000000001', '1', '1e-15'), 30);
+      expect(a.outcome).toBe('undecided');
+      expect(a.reason).toMatch(/lattice sum/);
+    });
+  });
+  it('disagrees when the residual is far beyond the reached accuracy', () => {
+    withDigits(60, () => {
+      const a = assessSample(at('1.0000001', '1', '1e-15'), at('1.0000001', '1', '1e-15'), 30);
+      expect(a.outcome).toBe('disagree');
+    });
+  });
+  it('a limit below the tolerance changes nothing', () => {
+    withDigits(60, () => {
+      const a = assessSample(at('1.5', '1.5', '1e-40'), at('1.5', '1.5', '1e-40'), 30);
+      expect(a.digits).toBe(30);
+      expect(a.limitedBy).toBeUndefined();
+    });
+  });
+});
+
 describe('assessSample', () => {
   it('agrees when the residual and the precision difference are below 10^-(P-2)', () => {
     withDigits(60, () => {

@@ -2,6 +2,7 @@
 // temporary folder. Exit codes, the JSON schema, byte-identical JSON for the same seed,
 // JUnit XML checked by an outside parser (Python's xml.dom.minidom), parse errors with
 // position and caret, and `eval` against a published value.
+import { Decimal } from 'decimal.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -127,6 +128,21 @@ describe('modvet eval and list', () => {
     const r = modvet('eval', 'j(tau)', '--at', 'tau=i', '--json');
     expect(r.code).toBe(0);
     expect(JSON.parse(r.out.trim())).toEqual({ re: '1728', im: '0' });
+  });
+  it('prints a lattice sum only to the digits its extrapolation reached, each of them right', () => {
+    // sum' (m^2 + n^2)^-2 = 4 zeta(2) beta(2) (Hardy and Wright, ch. XVI; from memory), the
+    // reference evaluated by modvet's zeta and beta (tested against mpmath)
+    const r = modvet('eval', 'sum((m, n) != (0, 0), abs(m*tau + n)^(-4))', '--at', 'tau=i', '--digits', '30', '--json');
+    expect(r.code).toBe(0);
+    const m = /printed to (\d+) digits \(30 requested\)/.exec(r.err);
+    expect(r.err).toContain('limited by a lattice sum');
+    expect(m).not.toBeNull();
+    const D = Number(m![1]);
+    expect(D).toBeGreaterThanOrEqual(16);
+    const ref = modvet('eval', '4*zeta(2)*beta(2)', '--digits', '40', '--json');
+    const got = new Decimal((JSON.parse(r.out.trim()) as { re: string }).re);
+    const want = new Decimal((JSON.parse(ref.out.trim()) as { re: string }).re);
+    expect(got.toString()).toBe(want.toSignificantDigits(D).toString());
   });
   it('shows an unknown name in the expression with a caret', () => {
     const r = modvet('eval', 'E(4, tau) + Delat(tau)', '--at', 'tau=i');

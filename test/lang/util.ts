@@ -61,6 +61,8 @@ export function sexpr(e: Expr): string {
       return `(${e.op}${e.weight === null ? '' : ' ' + sexpr(e.weight)} ${sexpr(e.arg)}${e.at === null ? '' : ' @' + sexpr(e.at)})`;
     case 'boundVar':
       return `%${e.name}`;
+    case 'lattice':
+      return `(${e.pairs} ${e.variables.join(' ')} ${sexpr(e.body)})`;
     case 'series': {
       const r = e.range.kind === 'divisors' ? `| ${sexpr(e.range.of)}` : `${sexpr(e.range.from)}..${e.range.to === null ? 'inf' : sexpr(e.range.to)}`;
       return `(${e.op} ${e.variable} ${r} ${sexpr(e.body)})`;
