@@ -8,7 +8,8 @@ import { Complex } from '../numeric/complex.js';
 import { ModvetError } from '../numeric/errors.js';
 import { withDigits } from '../numeric/precision.js';
 import type { Claim, Settings } from '../lang/ast.js';
-import { EvalError, evaluate, evaluateConstant, evaluateRegion, inRegion, NumericBound } from '../eval/evaluate.js';
+import { Decimal } from 'decimal.js';
+import { EvalError, evaluate, evaluateConstant, evaluateRegion, EvaluationMemo, inRegion, NumericBound } from '../eval/evaluate.js';
 import { CheckableClaim, ParamSpec, Sample, SideValue } from './claim.js';
 
 /** Digits used to evaluate clause values (box corners, list values, region bounds). */
@@ -79,7 +80,30 @@ export function claimSettings(claim: Claim, defaults: Settings): Settings {
   return s;
 }
 
-export function toCheckable(claim: Claim, defaults: Settings): CheckableClaim {
+/**
+ * Memos of evaluated nodes per sample and precision (evaluate.ts EvaluationMemo), for a
+ * claim and its variants checked at the same samples: the unchanged parts are evaluated once.
+ */
+export class SampleMemos {
+  private readonly byKey = new Map<string, EvaluationMemo>();
+  /** Most memos kept (each holds the values of one sample at one precision). */
+  private static readonly LIMIT = 2000;
+
+  at(s: Sample, yMin: number): EvaluationMemo {
+    const params = [...s.params].map(([k, v]) => `${k}=${v.toString()}`).join(',');
+    const g = s.gamma === undefined ? '' : `${s.gamma.a},${s.gamma.b},${s.gamma.c},${s.gamma.d}`;
+    const key = `${s.tau.toString()}|${params}|${g}|${yMin}|${Decimal.precision}`;
+    let m = this.byKey.get(key);
+    if (m === undefined) {
+      if (this.byKey.size >= SampleMemos.LIMIT) this.byKey.clear();
+      m = new EvaluationMemo();
+      this.byKey.set(key, m);
+    }
+    return m;
+  }
+}
+
+export function toCheckable(claim: Claim, defaults: Settings, memos?: SampleMemos): CheckableClaim {
   const settings = claimSettings(claim, defaults);
   let bounds: NumericBound[] | undefined;
   if (claim.region !== undefined) {
@@ -97,7 +121,7 @@ export function toCheckable(claim: Claim, defaults: Settings): CheckableClaim {
         ...(s.gamma !== undefined && claim.group !== undefined ? { group: { name: claim.group.variable, matrix: s.gamma } } : {}),
         params: s.params,
         yMin,
-      });
+      }, memos?.at(s, yMin));
     } catch (err) {
       throw asModvetError(err);
     }

@@ -132,10 +132,22 @@ export class EvalError extends Error {
   }
 }
 
-/** Evaluates at the precision in force (module header). */
-export function evaluate(expr: Expr, env: EvalEnv): EvalResult {
-  const log = newLog();
-  const raw = withGuard(EVAL_GUARD_DIGITS, () => walk(new Walker(env, NO_BINDINGS, null, -1, log), expr));
+/**
+ * Values already computed at one sample and one precision, shared by several evaluations
+ * there: a claim and its variants (a suggested fix, a mutant) that contain the same nodes
+ * reuse them. The caller keys a memo by everything the values depend on (tau, parameters,
+ * group element, y_min, precision); the truncation log is shared too, so a reused lattice
+ * sum still limits the result.
+ */
+export class EvaluationMemo {
+  readonly values = new Map<Expr, Val>();
+  readonly log: TruncationLog = newLog();
+}
+
+/** Evaluates at the precision in force (module header); `memo`: see EvaluationMemo. */
+export function evaluate(expr: Expr, env: EvalEnv, memo?: EvaluationMemo): EvalResult {
+  const log = memo?.log ?? newLog();
+  const raw = withGuard(EVAL_GUARD_DIGITS, () => walk(new Walker(env, NO_BINDINGS, null, -1, log, memo?.values), expr));
   const value = raw.v.round();
   const out: EvalResult = { value, scale: raw.s.plus(value.abs()).toSD(8) };
   if (log.rel.gt(0)) out.limit = { rel: log.rel.toSD(3), by: log.by };
@@ -251,7 +263,7 @@ const NO_BINDINGS: ReadonlyMap<number, Val> = new Map();
 
 class Walker {
   // expansions share subtrees: each distinct node is evaluated once per call
-  private readonly memo = new Map<Expr, Val>();
+  private readonly memo: Map<Expr, Val>;
 
   /**
    * bindings: values of series variables by key (series.ts). A term walker has a parent
@@ -264,7 +276,10 @@ class Walker {
     private readonly parent: Walker | null = null,
     private readonly key = -1,
     private readonly log: TruncationLog = parent?.log ?? newLog(),
-  ) {}
+    memo?: Map<Expr, Val>,
+  ) {
+    this.memo = memo ?? new Map<Expr, Val>();
+  }
 
   /** Fixes a node's value (a frozen let argument of an operator). */
   seed(e: Expr, v: Val): void {
