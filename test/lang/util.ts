@@ -61,6 +61,8 @@ export function sexpr(e: Expr): string {
       return `(${e.op}${e.weight === null ? '' : ' ' + sexpr(e.weight)} ${sexpr(e.arg)}${e.at === null ? '' : ' @' + sexpr(e.at)})`;
     case 'boundVar':
       return `%${e.name}`;
+    case 'limit':
+      return `(limit ${e.variable} ${sexpr(e.at)} ${sexpr(e.body)})`;
     case 'lattice':
       return `(${e.pairs} ${e.variables.join(' ')} ${sexpr(e.body)})`;
     case 'series': {
