@@ -44,6 +44,8 @@ export interface ClaimResult {
   worst?: SampleReport;
   /** What limited `digits` below the requested digits (a holding claim), e.g. 'a lattice sum'. */
   limitedBy?: string;
+  /** Every evaluated sample, in order (for the diagnosis of a refuted claim; not reported). */
+  reports: SampleReport[];
 }
 
 const ESCALATION_GUARD = 5;
@@ -82,11 +84,13 @@ function measure(claim: CheckableClaim, s: Sample, P: number, yMin: number): Sam
 export function checkClaim(claim: CheckableClaim, opts: CheckOptions): ClaimResult {
   const t0 = performance.now();
   const P = claim.digits ?? opts.digits;
-  const done = (r: Omit<ClaimResult, 'claim' | 'ok' | 'timeMs' | 'requested'>): ClaimResult => ({
+  const reports: SampleReport[] = [];
+  const done = (r: Omit<ClaimResult, 'claim' | 'ok' | 'timeMs' | 'requested' | 'reports'>): ClaimResult => ({
     claim,
     ok: r.verdict === claim.expect,
     timeMs: performance.now() - t0,
     requested: P,
+    reports,
     ...r,
   });
   let samples: Sample[];
@@ -96,7 +100,6 @@ export function checkClaim(claim: CheckableClaim, opts: CheckOptions): ClaimResu
     if (e instanceof ModvetError) return done({ verdict: 'error', digits: 0, samples: 0, reason: e.message });
     throw e;
   }
-  const reports: SampleReport[] = [];
   // samples that ran out of terms have no values to show, only an outcome
   let unfinished = 0;
   let undecidedReason: string | undefined;

@@ -6,14 +6,16 @@
  * Exit code: 2 when an input could not be read or parsed (the rest is still checked),
  * else 1 when some claim did not get its expected verdict, else 0.
  */
-import { readFileSync, writeFileSync } from 'node:fs';
-import { resolve } from 'node:path';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
 import { parseSource } from '../lang/parser.js';
 import { renderDiagnostic } from '../lang/diagnostics.js';
 import type { Settings } from '../lang/ast.js';
 import { ModvetError } from '../numeric/errors.js';
 import { toCheckable } from '../check/fromAst.js';
 import { checkClaim, ClaimResult } from '../check/run.js';
+import { explainRefuted, fixedFileText, type ExplainedResult } from '../diagnose/explain.js';
+import type { Claim } from '../lang/ast.js';
 import { CheckableClaim } from '../check/claim.js';
 import { claimLines, summaryLine } from '../report/text.js';
 import { jsonReport } from '../report/json.js';
@@ -34,6 +36,12 @@ export interface CheckFlags {
   json?: boolean;
   junit?: string;
   quiet?: boolean;
+  fix?: boolean;
+}
+
+/** Where `--fix` writes a file's corrected claims: beside it, never over anything. */
+export function fixedPath(file: string): string {
+  return join(dirname(file), basename(file, '.vet') + '.fixed.vet');
 }
 
 /** The command-line settings, validated (undefined where not given). */
@@ -49,7 +57,30 @@ export function parseFlags(f: CheckFlags): Settings {
 /** A claim that could not even be set up (a bad clause value) is reported as an error. */
 function setupFailure(claim: Pick<CheckableClaim, 'file' | 'line' | 'name' | 'text' | 'expect' | 'source'>, message: string, digits: number): ClaimResult {
   const c: CheckableClaim = { ...claim, params: [], evaluate: () => { throw new Error('not evaluable'); } };
-  return { claim: c, verdict: 'error', ok: claim.expect === 'error', digits: 0, requested: digits, samples: 0, timeMs: 0, reason: message };
+  return { claim: c, verdict: 'error', ok: claim.expect === 'error', digits: 0, requested: digits, samples: 0, timeMs: 0, reason: message, reports: [] };
+}
+
+/** Writes a file's checked fixes beside it (module header of explain.ts); true on failure. */
+function writeFixes(file: string, text: string, fixes: { claim: Claim; rhs: string }[], cwd: string, io: Streams): boolean {
+  const out = fixedPath(file);
+  const fixed = fixedFileText(text, fixes);
+  if (fixed === null) {
+    io.err(`modvet: ${file}: no suggested fix holds; nothing written\n`);
+    return false;
+  }
+  const target = resolve(cwd, out);
+  if (existsSync(target)) {
+    io.err(`modvet: ${out} exists; not overwriting it (remove it to write the fixes again)\n`);
+    return true;
+  }
+  try {
+    writeFileSync(target, fixed, { flag: 'wx' });
+  } catch (e) {
+    io.err(`modvet: cannot write ${out}: ${e instanceof Error ? e.message : String(e)}\n`);
+    return true;
+  }
+  io.err(`modvet: wrote ${fixes.length} corrected claim(s) to ${out}\n`);
+  return false;
 }
 
 export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: string): number {
@@ -65,8 +96,9 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
   }
   const color = io.color ?? false;
   const seed = cli.seed ?? DEFAULTS.seed;
-  const results: ClaimResult[] = [];
+  const results: ExplainedResult[] = [];
   let fileSeed: number | undefined;
+  let fixFailed = false;
   for (const file of found.files) {
     let text: string;
     try {
@@ -83,18 +115,27 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
     // the command line overrides the file's `use` defaults; a claim's own clauses override both
     const defaults: Settings = { ...ast.defaults, ...cli };
     fileSeed = cli.seed ?? ast.defaults.seed;
+    const fixes: { claim: Claim; rhs: string }[] = [];
     for (const claim of ast.claims) {
       if (only !== null && !only(claim.name)) continue;
-      let result: ClaimResult;
+      let result: ExplainedResult;
       try {
         const checkable = toCheckable(claim, defaults);
         if (checkable.seed === undefined && fileSeed !== undefined) checkable.seed = fileSeed;
-        result = checkClaim(checkable, {
+        const opts = {
           digits: defaults.digits ?? DEFAULTS.digits,
           samples: defaults.samples ?? DEFAULTS.samples,
           seed,
           yMin: defaults.yMin ?? DEFAULTS.yMin,
-        });
+        };
+        result = checkClaim(checkable, opts);
+        if (result.verdict === 'refuted') {
+          // say what is off, where it fails most simply, and check the corrected claim
+          const explanation = explainRefuted(result, { claim, fileText: text, defaults }, opts);
+          result = { ...result, explanation };
+          const s = explanation.suggestion;
+          if (s !== undefined && s.verdict === 'holds') fixes.push({ claim, rhs: s.rhs });
+        }
       } catch (e) {
         if (!(e instanceof ModvetError)) throw e;
         result = setupFailure(
@@ -108,6 +149,7 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
         for (const line of claimLines(result, { color, quiet: flags.quiet ?? false })) io.out(line + '\n');
       }
     }
+    if (flags.fix === true) fixFailed = writeFixes(file, text, fixes, cwd, io) || fixFailed;
   }
   for (const p of found.problems) io.err(`modvet: ${p.file}: ${p.message}\n`);
   const settings = {
@@ -126,6 +168,6 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
       return 2;
     }
   }
-  if (problems.length > 0) return 2;
+  if (problems.length > 0 || fixFailed) return 2;
   return results.every((r) => r.ok) ? 0 : 1;
 }

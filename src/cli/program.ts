@@ -12,6 +12,8 @@ import { demoLines } from './demo.js';
 import { CheckFlags, runCheck } from './check.js';
 import { runList } from './list.js';
 import { EvalFlags, runEval } from './eval.js';
+import { PlotFlags, runPlot } from './plot.js';
+import { TexFlags, runTex } from './tex.js';
 import { UsageError } from './options.js';
 import { VERSION } from './version.js';
 
@@ -56,6 +58,7 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     .option('--json', 'print a JSON report (schema modvet-check/1) on stdout')
     .option('--junit <file>', 'also write a JUnit XML report to <file>')
     .option('-q, --quiet', 'print only the claims that did not get their expected verdict')
+    .option('--fix', 'write the suggested fixes that hold to <file>.fixed.vet beside each file (never overwrites)')
     .action((paths: string[], flags: CheckFlags) => {
       code = runCheck(paths, flags, io, cwd);
     });
@@ -78,6 +81,35 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     .option('--json', 'print {"re": "...", "im": "..."}')
     .action((expression: string, flags: EvalFlags) => {
       code = runEval(expression, flags, io);
+    });
+
+  program
+    .command('plot')
+    .description('plot one or two expressions along a path in the upper half plane to an SVG file, with log10 |f - g| below, e.g. plot "E(4, tau)^2" "E(8, tau)" --path "x=0.1, y=0.5..3" --out e8.svg')
+    .argument('<expressions...>', 'one or two expressions of the claim language (f, and g to compare with)')
+    .option('--path <path>', 'x fixed and y running, "x=-0.4, y=0.5..3", or y fixed and x running, "y=1.2, x=-0.5..0.5"')
+    .option('-o, --out <file>', 'the SVG file to write (required; never a .vet file)')
+    .option('--points <n>', 'sample points along the path (2..10000; default 120)')
+    .option('-d, --digits <n>', 'significant digits of each value (5..2000; default 20)')
+    .option('--at <name=value>', 'a value for a parameter (repeatable; tau comes from --path)', (v: string, prev: string[] = []) => [...prev, v])
+    .option('--ymin <y>', 'smallest Im tau the built-ins accept (default 0.02)')
+    .action((expressions: string[], flags: PlotFlags) => {
+      code = runPlot(expressions, flags, io, cwd);
+    });
+
+  program
+    .command('tex')
+    .description('check the claims as `check` does and write the LaTeX of those that hold (the others are listed on stderr)')
+    .argument('[paths...]', 'claim files or folders (default identities/)')
+    .option('-d, --digits <n>', 'significant digits to check (5..2000; default 30)')
+    .option('-n, --samples <n>', 'sample points per claim (default 16)')
+    .option('-s, --seed <n>', 'seed of the random samples (default 1)')
+    .option('--ymin <y>', 'smallest Im tau sampled (default 0.02)')
+    .option('--only <pattern>', 'only claims whose name matches (substring, or * wildcards)')
+    .option('-o, --out <file>', 'write the LaTeX to <file> instead of stdout (never a .vet file)')
+    .option('--standalone', 'a whole document (article, amsmath, amssymb) instead of a fragment to \\input')
+    .action((paths: string[], flags: TexFlags) => {
+      code = runTex(paths, flags, io, cwd);
     });
 
   program

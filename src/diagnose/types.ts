@@ -56,6 +56,7 @@ export type DiagnosisKind =
   | 'branch' // LHS = -RHS at some samples, LHS = RHS at the others
   | 'constant-difference' // LHS = RHS + c, c recognised
   | 'anomaly' // LHS = RHS + C c (c tau + d), C recognised
+  | 'affine' // LHS = a RHS + b, a != 1 and b != 0 (a sign slip in a q-expansion: 2 - E_6)
   | 'conjugate' // LHS = conj(RHS)
   | 'reflection' // LHS = RHS at s -> 1 - s
   | 'inversion' // LHS = RHS at tau -> -1/tau
@@ -67,6 +68,8 @@ export interface Diagnosis {
   text: string;
   /** The recognised constant (factor c, difference c or anomaly coefficient C), if any. */
   constant?: Recognised;
+  /** For 'affine': the recognised offset b (`constant` holds the factor a). */
+  offset?: Recognised;
   /** The corrected right side, where the diagnosis is exact. */
   fix?: Fix;
   /** Digits to which the pattern matched the samples (the worst sample). */

@@ -12,13 +12,19 @@
  *     "samples": 16, "reason": null | "...",
  *     "worst": null | { "tau": {"re","im"}, "group": null | {"matrix": [[a,b],[c,d]], "word": "S T"},
  *                       "params": { "s": {"re","im"} }, "lhs": {"re","im"}, "rhs": {"re","im"},
- *                       "residual": "1.2e-31", "precisions": [35, 45] } } ],
+ *                       "residual": "1.2e-31", "precisions": [35, 45] },
+ *     "diagnosis": null | { "kind": "constant-factor", "text": "LHS = 2 pi * RHS",
+ *                           "constant": null | "2 pi", "digits": 28 },
+ *     "simplest": null | { "text": "g = S at tau = i", "residual": "0.5" },
+ *     "suggestion": null | { "equation": "...", "verdict": "holds", "digits": 30,
+ *                            "limited_by": null | "...", "reason": null | "..." } } ],
+ *   (diagnosis, simplest and suggestion are set for refuted claims only)
  *   "errors": [ { "file": "...", "message": "..." } ],
  *   "summary": { "claims": n, "holds": n, "refuted": n, "undecided": n, "error": n, "unexpected": n }
  * }
  * Numbers inside "worst" are decimal strings with 20 significant digits.
  */
-import { ClaimResult } from '../check/run.js';
+import type { ExplainedResult } from '../diagnose/explain.js';
 import { toWord, wordToString } from '../groups/words.js';
 import { complexJson } from './describe.js';
 
@@ -29,10 +35,25 @@ export interface RunSettings {
   yMin: number;
 }
 
+function explanationJson(r: ExplainedResult) {
+  const x = r.explanation;
+  if (x === undefined) return { diagnosis: null, simplest: null, suggestion: null };
+  const d = x.diagnosis;
+  const s = x.suggestion;
+  return {
+    diagnosis: { kind: d.kind, text: d.text, constant: d.constant?.text ?? null, digits: d.digits },
+    simplest: x.simplest === null ? null : { text: x.simplest.text, residual: x.simplest.residual },
+    suggestion:
+      s === undefined
+        ? null
+        : { equation: s.equation, verdict: s.verdict, digits: s.digits, limited_by: s.limitedBy ?? null, reason: s.reason ?? null },
+  };
+}
+
 export function jsonReport(
   version: string,
   settings: RunSettings,
-  results: ClaimResult[],
+  results: ExplainedResult[],
   errors: { file: string; message: string }[],
 ): string {
   const count = (v: string) => results.filter((r) => r.verdict === v).length;
@@ -73,6 +94,7 @@ export function jsonReport(
               residual: w.assessment.residual.isZero() ? '0' : w.assessment.residual.toSD(3).toExponential(),
               precisions: [w.p1, w.p2],
             },
+      ...explanationJson(r),
     };
   });
   const doc = {

@@ -4,6 +4,7 @@
  */
 import { Chalk, ChalkInstance } from 'chalk';
 import { ClaimResult } from '../check/run.js';
+import type { ExplainedResult } from '../diagnose/explain.js';
 import { Verdict } from '../check/claim.js';
 import { showComplex, showSample } from './describe.js';
 
@@ -22,7 +23,7 @@ function paintVerdict(c: ChalkInstance, v: Verdict, ok: boolean): string {
   return v === 'holds' ? c.green(word) : v === 'refuted' ? c.cyan(word) : c.yellow(word);
 }
 
-export function claimLines(r: ClaimResult, opts: TextOptions): string[] {
+export function claimLines(r: ExplainedResult, opts: TextOptions): string[] {
   const c = painter(opts.color);
   const where = `${r.claim.file}:${r.claim.line}`;
   const head = `${paintVerdict(c, r.verdict, r.ok)} ${r.claim.name}  ${c.dim(where)}`;
@@ -46,6 +47,19 @@ export function claimLines(r: ClaimResult, opts: TextOptions): string[] {
     lines.push(`          worst sample: ${showSample(w.sample, r.claim.group?.variable)}`);
     lines.push(`            LHS = ${showComplex(w.lhs.value)}`);
     lines.push(`            RHS = ${showComplex(w.rhs.value)}`);
+  }
+  const x = r.explanation;
+  if (x !== undefined) {
+    lines.push(`          diagnosis: ${x.diagnosis.text}`);
+    if (x.simplest !== null) lines.push(`          simplest failure: ${x.simplest.text} (relative residual ${x.simplest.residual})`);
+    const s = x.suggestion;
+    if (s !== undefined) {
+      const how =
+        s.verdict === 'holds'
+          ? c.green(`holds to ${s.digits} digits${s.limitedBy !== undefined ? `, limited by ${s.limitedBy}` : ''}`)
+          : c.yellow(`${s.verdict}${s.reason !== undefined ? `: ${s.reason}` : ''}`);
+      lines.push(`          suggested: ${s.equation}   ${how}`);
+    }
   }
   return lines;
 }
