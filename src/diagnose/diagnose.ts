@@ -36,7 +36,7 @@
  *    (extra evaluations, which may leave the declared domain; failures just mean no fit).
  * 6. unrecognised, with r and d at the worst sample.
  * Ratio patterns are skipped when a side vanishes at some sample (relative to the other).
- * Extra evaluations: at most MAX_EXTRA per diagnosis.
+ * Extra evaluations: at most MAX_EXTRA per diagnosis (ctx.extraBudget, when set, instead).
  *
  *   diagnose(contextFor(claim, { digits: 30, seed: 1, samples: 16, yMin: 0.02 })).text
  *   // "LHS = 1/2 * RHS" for E(4, tau)^2 = 2*E(8, tau)
@@ -207,7 +207,7 @@ function matText(g: NonNullable<Sample['gamma']>): string {
 
 /** Both sides at another sample, or null when the evaluation fails or the budget is spent. */
 function extraPoint(w: Work, sample: Sample): Point | null {
-  if (w.extra >= MAX_EXTRA) return null;
+  if (w.extra >= (w.ctx.extraBudget ?? MAX_EXTRA)) return null;
   w.extra++;
   try {
     const d = Math.min(MAX_DIGITS, w.Dmax + 5);

@@ -74,6 +74,11 @@ export function shrinkBudget(claim: Claim): number {
   return heavy ? 4 : 20;
 }
 
+/** Extra evaluations the diagnosis may make: few for costly claims (as shrinkBudget). */
+export function diagnosisBudget(claim: Claim): number {
+  return shrinkBudget(claim) < 20 ? 2 : 10;
+}
+
 export interface ExplainOptions extends CheckOptions {
   /** Search for the simplest failure (default true). */
   shrink?: boolean;
@@ -133,7 +138,7 @@ function checkSuggestion(src: ClaimSource, rhs: string, opts: CheckOptions): Sug
 export function explainRefuted(result: ClaimResult, src: ClaimSource, opts: ExplainOptions): Explanation {
   const P = result.requested;
   const yMin = result.claim.yMin ?? opts.yMin;
-  const ctx = contextFromSamples(result.claim, P, result.reports.map(diagnosisSample), yMin);
+  const ctx = { ...contextFromSamples(result.claim, P, result.reports.map(diagnosisSample), yMin), extraBudget: diagnosisBudget(src.claim) };
   const diagnosis = diagnose(ctx);
   const simplest = opts.shrink === false ? null : shrink(result.claim, P, yMin, { maxEvaluations: shrinkBudget(src.claim) });
   const out: Explanation = { diagnosis, simplest };

@@ -37,6 +37,8 @@ export interface DiagnosisContext {
   params: string[];
   /** The claim's group clause variable, if any (for (c tau + d)^m and multipliers). */
   group?: string;
+  /** Most extra evaluations the diagnosis may make (default diagnose.ts MAX_EXTRA); fewer for costly claims. */
+  extraBudget?: number;
 }
 
 /**
@@ -60,6 +62,7 @@ export type DiagnosisKind =
   | 'conjugate' // LHS = conj(RHS)
   | 'reflection' // LHS = RHS at s -> 1 - s
   | 'inversion' // LHS = RHS at tau -> -1/tau
+  | 'term-slip' // one edit inside a side (repair.ts): a term's factor or sign, an exponent's sign, a nome
   | 'unrecognised';
 
 export interface Diagnosis {
@@ -72,8 +75,22 @@ export interface Diagnosis {
   offset?: Recognised;
   /** The corrected right side, where the diagnosis is exact. */
   fix?: Fix;
+  /** For 'term-slip': the edit that makes the claim hold (repair.ts). */
+  edit?: SpanEdit;
   /** Digits to which the pattern matched the samples (the worst sample). */
   digits: number;
+}
+
+/**
+ * An edit of the file text inside one side (repair.ts): [start, end) replaced by `text`,
+ * offsets into the file text (span.ts). Kept apart from Fix, which rewrites the right side
+ * only (applyFix in print.ts): a term slip may sit on the left side.
+ */
+export interface SpanEdit {
+  side: 'lhs' | 'rhs';
+  start: number;
+  end: number;
+  text: string;
 }
 
 /** A simplest failing point found by shrinking (shrink.ts). */

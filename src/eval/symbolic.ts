@@ -342,7 +342,7 @@ class FromText {
   }
 }
 
-function fromNerdamer(text: string, symbols: Expr[], span: Span): Expr | null {
+export function fromNerdamer(text: string, symbols: Expr[], span: Span): Expr | null {
   const tokens = tokenize(text);
   if (tokens === null || tokens.length === 0) return null;
   try {

@@ -22,6 +22,7 @@ import { evaluateConstant } from '../../src/eval/evaluate.js';
 import { mutants, type Mutant } from '../../src/diagnose/mutate.js';
 import { contextFromSamples, diagnosisSample } from '../../src/diagnose/context.js';
 import { diagnose } from '../../src/diagnose/diagnose.js';
+import { diagnosisBudget } from '../../src/diagnose/explain.js';
 import type { Diagnosis } from '../../src/diagnose/types.js';
 
 const DIR = fileURLToPath(new URL('../../identities', import.meta.url));
@@ -84,7 +85,7 @@ describe('mutants of the shipped claims', () => {
     it(`are refuted and diagnosed: ${file}`, () => {
       for (const { claim, defaults } of claimsOf(file)) {
         const memos = new SampleMemos();
-        const few = { ...claim, samples: Math.min(claim.samples ?? SAMPLES, SAMPLES) };
+        const few = { ...claim, samples: Math.min(claim.samples ?? defaults.samples ?? SAMPLES, SAMPLES) };
         const base = checkClaim(toCheckable(few, defaults, memos), OPTS);
         expect(base.verdict, `${claim.name} itself`).toBe('holds');
         for (const m of mutants(claim)) {
@@ -93,7 +94,8 @@ describe('mutants of the shipped claims', () => {
           let recognised: boolean | null = null;
           let text: string | undefined;
           if (r.verdict === 'refuted') {
-            const d = diagnose(contextFromSamples(r.claim, P, r.reports.map(diagnosisSample), OPTS.yMin));
+            const ctx = { ...contextFromSamples(r.claim, P, r.reports.map(diagnosisSample), OPTS.yMin), extraBudget: diagnosisBudget(claim) };
+            const d = diagnose(ctx);
             text = d.text;
             if (m.kind === 'factor' || m.kind === 'shift') recognised = namesInjected(m, d);
           }
