@@ -11,9 +11,44 @@ const BIN = fileURLToPath(new URL('../dist/src/cli/main.js', import.meta.url));
 const run = promisify(execFile);
 
 interface Report {
-  claims: { file: string; name: string; verdict: string; expected: string; reason: string | null; digits: number; limited_by: string | null }[];
+  claims: {
+    file: string;
+    name: string;
+    verdict: string;
+    expected: string;
+    reason: string | null;
+    digits: number;
+    limited_by: string | null;
+    diagnosis: { kind: string; text: string } | null;
+    suggestion: { verdict: string; digits: number } | null;
+  }[];
   summary: { claims: number; refuted: number; unexpected: number };
 }
+
+// The diagnosis each deliberately wrong claim must get: the kind and a piece of the text
+// that names the slip (what the claim's source says is wrong).
+const DIAGNOSES: Record<string, [string, string]> = {
+  'a lost factor 2': ['constant-factor', 'LHS = 1/2 * RHS'],
+  'wrong weight in the law of E_4': ['automorphy-factor', 'differ by -2'],
+  'wrong sign of the E_2 anomaly': ['anomaly', '(-12 i/pi) c (c tau + d)'],
+  '2 pi instead of pi in the E_2 anomaly': ['anomaly', '(-3 i/pi) c (c tau + d)'],
+  'zeta(4) instead of 2 zeta(4) in G_4': ['constant-factor', 'LHS = 2 * RHS'],
+  'wrong power of pi in E4 at i': ['constant-factor', 'LHS = 1/(2 pi) * RHS'],
+  'eta under S without the -i': ['constant-factor', 'e^(2 pi i 7/8)'],
+  'the constant 744 added twice': ['constant-difference', 'RHS - 744'],
+  'wrong weight for Delta': ['automorphy-factor', 'differ by -12'],
+  'E6 with the wrong sign': ['affine', 'LHS = -RHS + 2'],
+  'Fourier expansion with the factor 2 missing': ['term-slip', 'needs a factor 2'],
+  'sigma_{2s-1} without the compensating power of n': ['term-slip', 'n^(1/2 - s) holds'],
+  'coset sum without the 1/2': ['constant-factor', 'LHS = 2 * RHS'],
+  'the lattice sum with a lost factor 2': ['constant-factor', 'LHS = 2 * RHS'],
+  's against 1 - s in the uncompleted series': ['reflection', 's -> 1 - s'],
+  '2 zeta(2s) for xi(2s)': ['parameter-factor', '(1/2) Gamma(s)/pi^s'],
+  'Laplace eigenvalue with the other sign': ['constant-factor', 'LHS = -1 * RHS'],
+  "Ramanujan's E_4 identity with 4 for 3": ['constant-factor', 'LHS = 4/3 * RHS'],
+  'q instead of q^(1/2): the nome doubled': ['term-slip', 'theta3(tau) holds'],
+  "a sign in Jacobi's identity": ['term-slip', 'wrong sign'],
+};
 
 // the runs are independent child processes: run them side by side
 describe.concurrent('identities/', () => {
@@ -35,6 +70,15 @@ describe.concurrent('identities/', () => {
       const eigen = holds.filter((c) => /eigenvalue|Laplacian/.test(c.name));
       expect(eigen.length).toBeGreaterThanOrEqual(4);
       for (const c of eigen) expect(c.digits, c.name).toBeGreaterThanOrEqual(25);
+      // every deliberately wrong claim: its slip named, and a corrected claim that holds
+      const refuted = doc.claims.filter((c) => c.verdict === 'refuted');
+      for (const c of refuted) {
+        const want = DIAGNOSES[c.name];
+        expect(want, `a diagnosis expectation for ${c.name}`).toBeDefined();
+        expect(c.diagnosis?.kind, c.name).toBe(want![0]);
+        expect(c.diagnosis?.text, c.name).toContain(want![1]);
+        expect(c.suggestion?.verdict, c.name).toBe('holds');
+      }
       const lattice = holds.filter((c) => c.file.endsWith('lattice.vet'));
       expect(lattice.length).toBeGreaterThanOrEqual(5);
       for (const c of lattice) {

@@ -14,8 +14,7 @@ import type { Settings } from '../lang/ast.js';
 import { ModvetError } from '../numeric/errors.js';
 import { toCheckable } from '../check/fromAst.js';
 import { checkClaim, ClaimResult } from '../check/run.js';
-import { explainRefuted, fixedFileText, type ExplainedResult } from '../diagnose/explain.js';
-import type { Claim } from '../lang/ast.js';
+import { claimFix, explainRefuted, fixedFileText, type ClaimFix, type ExplainedResult } from '../diagnose/explain.js';
 import { CheckableClaim } from '../check/claim.js';
 import { claimLines, summaryLine } from '../report/text.js';
 import { jsonReport } from '../report/json.js';
@@ -61,7 +60,7 @@ function setupFailure(claim: Pick<CheckableClaim, 'file' | 'line' | 'name' | 'te
 }
 
 /** Writes a file's checked fixes beside it (module header of explain.ts); true on failure. */
-function writeFixes(file: string, text: string, fixes: { claim: Claim; rhs: string }[], cwd: string, io: Streams): boolean {
+function writeFixes(file: string, text: string, fixes: ClaimFix[], cwd: string, io: Streams): boolean {
   const out = fixedPath(file);
   const fixed = fixedFileText(text, fixes);
   if (fixed === null) {
@@ -115,7 +114,7 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
     // the command line overrides the file's `use` defaults; a claim's own clauses override both
     const defaults: Settings = { ...ast.defaults, ...cli };
     fileSeed = cli.seed ?? ast.defaults.seed;
-    const fixes: { claim: Claim; rhs: string }[] = [];
+    const fixes: ClaimFix[] = [];
     for (const claim of ast.claims) {
       if (only !== null && !only(claim.name)) continue;
       let result: ExplainedResult;
@@ -133,8 +132,8 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
           // say what is off, where it fails most simply, and check the corrected claim
           const explanation = explainRefuted(result, { claim, fileText: text, defaults }, opts);
           result = { ...result, explanation };
-          const s = explanation.suggestion;
-          if (s !== undefined && s.verdict === 'holds') fixes.push({ claim, rhs: s.rhs });
+          const f = claimFix(claim, explanation);
+          if (f !== null) fixes.push(f);
         }
       } catch (e) {
         if (!(e instanceof ModvetError)) throw e;
@@ -149,7 +148,8 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
         for (const line of claimLines(result, { color, quiet: flags.quiet ?? false })) io.out(line + '\n');
       }
     }
-    if (flags.fix === true) fixFailed = writeFixes(file, text, fixes, cwd, io) || fixFailed;
+    const refuted = results.filter((r) => r.claim.file === file && r.verdict === 'refuted').length;
+    if (flags.fix === true && refuted > 0) fixFailed = writeFixes(file, text, fixes, cwd, io) || fixFailed;
   }
   for (const p of found.problems) io.err(`modvet: ${p.file}: ${p.message}\n`);
   const settings = {

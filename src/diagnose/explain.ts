@@ -6,7 +6,8 @@
  * Conventions:
  * - The diagnosis works from the samples the checker already evaluated (ClaimResult.reports)
  *   plus at most a few extra evaluations; shrinking tries simple points in a fixed order.
- * - A fix rewrites the right side only (types.ts). The corrected claim is parsed afresh from
+ * - A fix rewrites the right side only (types.ts), tidied by simplify.ts where that is
+ *   shorter and still holds. The corrected claim is parsed afresh from
  *   the file text with the new right side, in the file's own context (its `use` line and
  *   lets), with `expect holds`, and checked with the run's settings; it is suggested only
  *   with the verdict it got, so a fix that does not hold is shown as such, never as a pass.
@@ -17,7 +18,7 @@
  */
 import type { Claim, Settings } from '../lang/ast.js';
 import { parseSource } from '../lang/parser.js';
-import { applyFix, PrintError, rewriteEquation } from '../lang/print.js';
+import { applyFix, PrintError } from '../lang/print.js';
 import { ModvetError } from '../numeric/errors.js';
 import type { Verdict } from '../check/claim.js';
 import { toCheckable } from '../check/fromAst.js';
@@ -26,7 +27,9 @@ import { contextFromSamples, diagnosisSample } from './context.js';
 import { diagnose } from './diagnose.js';
 import { shrink } from './shrink.js';
 import { mapExpr } from './mutate.js';
-import type { Diagnosis, SimplestFailure } from './types.js';
+import { simplifiedText } from './simplify.js';
+import { applyEdit, repairSuggestion } from './repair.js';
+import type { Diagnosis, SimplestFailure, SpanEdit } from './types.js';
 
 export interface ClaimSource {
   claim: Claim;
@@ -86,21 +89,7 @@ export interface ExplainOptions extends CheckOptions {
 
 /** The file text with `claim`'s right side replaced and its `expect refuted` clause removed. */
 export function rewriteClaim(fileText: string, claim: Claim, newRhs: string): string {
-  let text = rewriteEquation(fileText, claim, newRhs);
-  if (claim.expect === 'refuted') {
-    // the clause lines sit between the header and the equation
-    const lines = text.split('\n');
-    const first = claim.span.line; // 1-based header line; clauses follow it
-    const last = claim.equationSpan.line - 1;
-    for (let k = first; k < last && k < lines.length; k++) {
-      if (/^\s*expect\s+refuted\s*(#.*)?$/.test(lines[k]!)) {
-        lines.splice(k, 1);
-        break;
-      }
-    }
-    text = lines.join('\n');
-  }
-  return text;
+  return applyEdit(fileText, claim, { side: 'rhs', start: claim.rhs.span.start, end: claim.rhs.span.end, text: newRhs });
 }
 
 /** The claim at the same header line of a re-parsed file, or null when it did not parse. */
@@ -141,6 +130,11 @@ export function explainRefuted(result: ClaimResult, src: ClaimSource, opts: Expl
   const ctx = { ...contextFromSamples(result.claim, P, result.reports.map(diagnosisSample), yMin), extraBudget: diagnosisBudget(src.claim) };
   const diagnosis = diagnose(ctx);
   const simplest = opts.shrink === false ? null : shrink(result.claim, P, yMin, { maxEvaluations: shrinkBudget(src.claim) });
+  if (diagnosis.kind === 'unrecognised') {
+    // no global pattern: look for a slip inside one term (repair.ts)
+    const rep = repairSuggestion(result, src, opts);
+    if (rep !== null) return { diagnosis: rep.diagnosis, simplest, suggestion: rep.suggestion };
+  }
   const out: Explanation = { diagnosis, simplest };
   if (diagnosis.fix !== undefined) {
     let rhs: string | null = null;
@@ -149,19 +143,40 @@ export function explainRefuted(result: ClaimResult, src: ClaimSource, opts: Expl
     } catch (e) {
       if (!(e instanceof PrintError)) throw e;
     }
-    if (rhs !== null) out.suggestion = checkSuggestion(src, rhs, opts);
+    if (rhs !== null) out.suggestion = suggest(src, rhs, opts);
   }
   return out;
 }
 
+/** The corrected claim checked, in its simplified form when that holds too (simplify.ts). */
+export function suggest(src: ClaimSource, rhs: string, opts: CheckOptions): Suggestion {
+  const parsed = reparsed(rewriteClaim(src.fileText, src.claim, rhs), src.claim.span.file, src.claim.span.line);
+  const simple = parsed === null ? null : simplifiedText(parsed.claim.rhs);
+  if (simple !== null && simple !== rhs) {
+    const s = checkSuggestion(src, simple, opts);
+    if (s.verdict === 'holds') return s;
+  }
+  return checkSuggestion(src, rhs, opts);
+}
+
+/** A checked fix of one claim: a new right side, or an edit of either side (repair.ts). */
+export type ClaimFix = { claim: Claim; rhs: string } | { claim: Claim; edit: SpanEdit };
+
+/** The fix of an explanation whose suggestion holds, or null. */
+export function claimFix(claim: Claim, x: Explanation): ClaimFix | null {
+  if (x.suggestion === undefined || x.suggestion.verdict !== 'holds') return null;
+  return x.diagnosis.edit !== undefined ? { claim, edit: x.diagnosis.edit } : { claim, rhs: x.suggestion.rhs };
+}
+
 /**
- * The file text with every fix that holds applied (bottom-up, so the earlier claims' offsets
- * stay valid), or null when there is none.
+ * The file text with every fix that holds applied, the last claim first (each claim's
+ * edits stay inside its own lines, so the earlier claims' offsets stay valid), or null when
+ * there is none.
  */
-export function fixedFileText(fileText: string, fixes: { claim: Claim; rhs: string }[]): string | null {
+export function fixedFileText(fileText: string, fixes: ClaimFix[]): string | null {
   if (fixes.length === 0) return null;
-  const sorted = [...fixes].sort((a, b) => b.claim.rhs.span.start - a.claim.rhs.span.start);
+  const sorted = [...fixes].sort((a, b) => b.claim.span.start - a.claim.span.start);
   let text = fileText;
-  for (const f of sorted) text = rewriteClaim(text, f.claim, f.rhs);
+  for (const f of sorted) text = 'edit' in f ? applyEdit(text, f.claim, f.edit) : rewriteClaim(text, f.claim, f.rhs);
   return text;
 }
