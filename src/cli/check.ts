@@ -7,24 +7,24 @@
  * else 1 when some claim did not get its expected verdict, else 0.
  */
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { basename, dirname, join, resolve } from 'node:path';
 import { parseSource } from '../lang/parser.js';
 import { renderDiagnostic } from '../lang/diagnostics.js';
-import type { Settings } from '../lang/ast.js';
-import { ModvetError } from '../numeric/errors.js';
-import { toCheckable } from '../check/fromAst.js';
-import { checkClaim, ClaimResult } from '../check/run.js';
-import { claimFix, explainRefuted, fixedFileText, type ClaimFix, type ExplainedResult } from '../diagnose/explain.js';
-import { CheckableClaim } from '../check/claim.js';
-import { claimLines, summaryLine } from '../report/text.js';
-import { jsonReport } from '../report/json.js';
-import { junitReport } from '../report/junit.js';
+import type { Claim, Settings } from '../lang/ast.js';
+import { fixedFileText, shrinkBudget, type ClaimFix } from '../diagnose/explain.js';
+import { summaryLine } from '../report/text.js';
+import { jsonDocument } from '../report/json.js';
+import { junitDocument } from '../report/junit.js';
 import { findClaimFiles } from './files.js';
-import { digitsOption, intOption, namePattern, UsageError, yMinOption } from './options.js';
+import { digitsOption, intOption, namePattern, shardOption, UsageError, yMinOption } from './options.js';
+import { runUnits } from './pool.js';
+import { Progress } from './progress.js';
 import type { Streams } from './program.js';
+import { DEFAULTS, type Unit, type UnitOutcome, type UnitSettings } from './unit.js';
 import { VERSION } from './version.js';
 
-export const DEFAULTS = { digits: 30, samples: 16, seed: 1, yMin: 0.02 } as const;
+export { DEFAULTS };
 
 export interface CheckFlags {
   digits?: string;
@@ -36,6 +36,8 @@ export interface CheckFlags {
   junit?: string;
   quiet?: boolean;
   fix?: boolean;
+  jobs?: string;
+  shard?: string;
 }
 
 /** Where `--fix` writes a file's corrected claims: beside it, never over anything. */
@@ -51,12 +53,6 @@ export function parseFlags(f: CheckFlags): Settings {
   if (f.seed !== undefined) s.seed = intOption('--seed', f.seed, 0, 2 ** 32 - 1);
   if (f.ymin !== undefined) s.yMin = yMinOption(f.ymin);
   return s;
-}
-
-/** A claim that could not even be set up (a bad clause value) is reported as an error. */
-function setupFailure(claim: Pick<CheckableClaim, 'file' | 'line' | 'name' | 'text' | 'expect' | 'source'>, message: string, digits: number): ClaimResult {
-  const c: CheckableClaim = { ...claim, params: [], evaluate: () => { throw new Error('not evaluable'); } };
-  return { claim: c, verdict: 'error', ok: claim.expect === 'error', digits: 0, requested: digits, samples: 0, timeMs: 0, reason: message, reports: [] };
 }
 
 /** Writes a file's checked fixes beside it (module header of explain.ts); true on failure. */
@@ -82,9 +78,19 @@ function writeFixes(file: string, text: string, fixes: ClaimFix[], cwd: string, 
   return false;
 }
 
-export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: string): number {
+/** A cost hint for the dispatch order (pool.ts): lattice sums and operators first. */
+function unitCost(claims: Map<string, Claim[]>): (u: Unit) => number {
+  return (u) => {
+    const claim = claims.get(u.file)?.[u.claim];
+    return claim === undefined ? 0 : shrinkBudget(claim) < 20 ? 1 : 0;
+  };
+}
+
+export async function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: string): Promise<number> {
   const cli = parseFlags(flags);
   const only = flags.only !== undefined ? namePattern(flags.only) : null;
+  const jobs = flags.jobs !== undefined ? intOption('--jobs', flags.jobs, 1, 256) : Math.max(1, availableParallelism());
+  const shard = flags.shard !== undefined ? shardOption(flags.shard) : null;
   if (flags.junit !== undefined && flags.junit.endsWith('.vet')) {
     throw new UsageError(`--junit ${flags.junit}: refusing to write a report over a claim file`);
   }
@@ -95,9 +101,11 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
   }
   const color = io.color ?? false;
   const seed = cli.seed ?? DEFAULTS.seed;
-  const results: ExplainedResult[] = [];
-  let fileSeed: number | undefined;
-  let fixFailed = false;
+
+  // parse every file first (its diagnostics on stderr), then list the claims to check
+  const units: Unit[] = [];
+  const texts = new Map<string, string>();
+  const claims = new Map<string, Claim[]>();
   for (const file of found.files) {
     let text: string;
     try {
@@ -111,63 +119,77 @@ export function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: s
       for (const d of diagnostics) io.err(renderDiagnostic(d, text) + '\n');
       problems.push({ file, message: `${diagnostics.length} problem(s) in the file; the claims that parsed were checked` });
     }
-    // the command line overrides the file's `use` defaults; a claim's own clauses override both
-    const defaults: Settings = { ...ast.defaults, ...cli };
-    fileSeed = cli.seed ?? ast.defaults.seed;
-    const fixes: ClaimFix[] = [];
-    for (const claim of ast.claims) {
-      if (only !== null && !only(claim.name)) continue;
-      let result: ExplainedResult;
-      try {
-        const checkable = toCheckable(claim, defaults);
-        if (checkable.seed === undefined && fileSeed !== undefined) checkable.seed = fileSeed;
-        const opts = {
-          digits: defaults.digits ?? DEFAULTS.digits,
-          samples: defaults.samples ?? DEFAULTS.samples,
-          seed,
-          yMin: defaults.yMin ?? DEFAULTS.yMin,
-        };
-        result = checkClaim(checkable, opts);
-        if (result.verdict === 'refuted') {
-          // say what is off, where it fails most simply, and check the corrected claim
-          const explanation = explainRefuted(result, { claim, fileText: text, defaults }, opts);
-          result = { ...result, explanation };
-          const f = claimFix(claim, explanation);
-          if (f !== null) fixes.push(f);
-        }
-      } catch (e) {
-        if (!(e instanceof ModvetError)) throw e;
-        result = setupFailure(
-          { file, line: claim.span.line, name: claim.name, text: claim.text, expect: claim.expect, ...(claim.source !== undefined ? { source: claim.source } : {}) },
-          e.message,
-          defaults.digits ?? DEFAULTS.digits,
-        );
+    texts.set(file, text);
+    claims.set(file, ast.claims);
+    ast.claims.forEach((claim, k) => {
+      if (only !== null && !only(claim.name)) return;
+      units.push({ index: units.length, file, text, claim: k });
+    });
+  }
+  // --shard k/n: every n-th claim from the k-th on, so the parts together are the whole run
+  const mine = shard === null ? units : units.filter((u) => u.index % shard.n === shard.k - 1);
+  const selected = mine.map((u, k) => ({ ...u, index: k }));
+
+  const settings: UnitSettings = { cli, seed, color, quiet: flags.quiet ?? false };
+  const progress = io.progress === true && !flags.quiet && selected.length > 0 ? new Progress(selected.length, { write: io.err, ...(io.columns !== undefined ? { columns: io.columns } : {}) }) : null;
+  // text lines are printed in claim order as soon as the claims before them are done
+  const ready = new Map<number, UnitOutcome>();
+  let next = 0;
+  const flush = () => {
+    for (let o = ready.get(next); o !== undefined; o = ready.get(next)) {
+      if (!flags.json && o.lines.length > 0) {
+        progress?.clear();
+        for (const line of o.lines) io.out(line + '\n');
       }
-      results.push(result);
-      if (!flags.json && (!flags.quiet || !result.ok)) {
-        for (const line of claimLines(result, { color, quiet: flags.quiet ?? false })) io.out(line + '\n');
-      }
+      ready.delete(next);
+      next++;
     }
-    const refuted = results.filter((r) => r.claim.file === file && r.verdict === 'refuted').length;
-    if (flags.fix === true && refuted > 0) fixFailed = writeFixes(file, text, fixes, cwd, io) || fixFailed;
+  };
+  let outcomes: UnitOutcome[];
+  try {
+    outcomes = await runUnits(selected, settings, jobs, {
+      cost: unitCost(claims),
+      started: (u) => progress?.started(u.index, claims.get(u.file)?.[u.claim]?.name ?? ''),
+      finished: (o) => {
+        progress?.finished(o.index);
+        ready.set(o.index, o);
+        flush();
+      },
+    });
+  } finally {
+    progress?.stop();
+  }
+
+  let fixFailed = false;
+  if (flags.fix === true) {
+    for (const [file, text] of texts) {
+      const mineHere = selected.filter((u) => u.file === file).map((u) => outcomes[u.index]!);
+      if (!mineHere.some((o) => o.verdict === 'refuted')) continue;
+      const list = claims.get(file)!;
+      const fixes: ClaimFix[] = mineHere
+        .map((o) => o.fix)
+        .filter((f): f is NonNullable<typeof f> => f !== null)
+        .map((f) => ('edit' in f ? { claim: list[f.claim]!, edit: f.edit } : { claim: list[f.claim]!, rhs: f.rhs }));
+      fixFailed = writeFixes(file, text, fixes, cwd, io) || fixFailed;
+    }
   }
   for (const p of found.problems) io.err(`modvet: ${p.file}: ${p.message}\n`);
-  const settings = {
+  const runSettings = {
     seed,
     digits: cli.digits ?? DEFAULTS.digits,
     samples: cli.samples ?? DEFAULTS.samples,
     yMin: cli.yMin ?? DEFAULTS.yMin,
   };
-  if (flags.json) io.out(jsonReport(VERSION, settings, results, problems));
-  else io.out(summaryLine(results, seed, problems.length, color) + '\n');
+  if (flags.json) io.out(jsonDocument(VERSION, runSettings, outcomes.map((o) => o.json), outcomes, problems));
+  else io.out(summaryLine(outcomes, seed, problems.length, color) + (shard !== null ? ` Shard ${shard.k}/${shard.n}: ${selected.length} of ${units.length} claims.` : '') + '\n');
   if (flags.junit !== undefined) {
     try {
-      writeFileSync(resolve(cwd, flags.junit), junitReport(results, problems));
+      writeFileSync(resolve(cwd, flags.junit), junitDocument(outcomes.map((o) => o.junit), problems));
     } catch (e) {
       io.err(`modvet: cannot write the JUnit report ${flags.junit}: ${e instanceof Error ? e.message : String(e)}\n`);
       return 2;
     }
   }
   if (problems.length > 0 || fixFailed) return 2;
-  return results.every((r) => r.ok) ? 0 : 1;
+  return outcomes.every((r) => r.ok) ? 0 : 1;
 }

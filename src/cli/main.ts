@@ -16,6 +16,8 @@ run(process.argv.slice(2), {
   out: (s) => process.stdout.write(s),
   err: (s) => process.stderr.write(s),
   color,
+  progress: process.stderr.isTTY === true,
+  ...(process.stderr.columns !== undefined ? { columns: process.stderr.columns } : {}),
 }).then(
   (code) => {
     process.exitCode = code;

@@ -37,3 +37,14 @@ export function namePattern(raw: string): (name: string) => boolean {
   const re = new RegExp(raw.includes('*') ? `^${parts.join('.*')}$` : parts.join(''));
   return (name) => re.test(name.toLowerCase());
 }
+
+/** --shard k/n: the k-th of n parts, 1 <= k <= n <= 1000. */
+export function shardOption(raw: string): { k: number; n: number } {
+  const m = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(raw);
+  const k = m === null ? NaN : Number(m[1]);
+  const n = m === null ? NaN : Number(m[2]);
+  if (m === null || !(n >= 1 && n <= 1000) || !(k >= 1 && k <= n)) {
+    throw new UsageError(`--shard ${raw}: expected k/n with 1 <= k <= n <= 1000, e.g. --shard 2/4`);
+  }
+  return { k, n };
+}

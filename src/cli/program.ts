@@ -26,6 +26,10 @@ export interface Streams {
   color?: boolean;
   /** The folder paths are relative to (default: process.cwd()). */
   cwd?: string;
+  /** Whether to draw a progress line on `err` (a terminal): decided by the caller. */
+  progress?: boolean;
+  /** Width of the terminal `err` writes to. */
+  columns?: number;
 }
 
 const HELP_CONVENTIONS = `
@@ -59,8 +63,10 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     .option('--junit <file>', 'also write a JUnit XML report to <file>')
     .option('-q, --quiet', 'print only the claims that did not get their expected verdict')
     .option('--fix', 'write the suggested fixes that hold to <file>.fixed.vet beside each file (never overwrites)')
-    .action((paths: string[], flags: CheckFlags) => {
-      code = runCheck(paths, flags, io, cwd);
+    .option('-j, --jobs <n>', 'check claims on n worker threads (default: the number of cores); the report is the same for every n')
+    .option('--shard <k/n>', 'check only the k-th of n parts of the claims (every n-th claim from the k-th), for a CI matrix')
+    .action(async (paths: string[], flags: CheckFlags) => {
+      code = await runCheck(paths, flags, io, cwd);
     });
 
   program

@@ -115,8 +115,7 @@ export function runTex(paths: string[], flags: TexFlags, io: Streams, cwd: strin
     try {
       writeFileSync(resolve(cwd, flags.out), tex);
     } catch (e) {
-      const why = e instanceof Error && 'code' in e ? `${(e as NodeJS.ErrnoException).code}` : e instanceof Error ? e.message : String(e);
-      io.err(`modvet: cannot write the LaTeX file ${flags.out}: ${why}\n`);
+      io.err(`modvet: cannot write the LaTeX file ${flags.out}: ${e instanceof Error ? e.message : String(e)}\n`);
       return 2;
     }
     io.out(summary);

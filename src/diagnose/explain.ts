@@ -74,7 +74,7 @@ export function shrinkBudget(claim: Claim): number {
       return null;
     });
   }
-  return heavy ? 4 : 20;
+  return heavy ? 2 : 20;
 }
 
 /** Extra evaluations the diagnosis may make: few for costly claims (as shrinkBudget). */

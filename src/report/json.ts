@@ -50,53 +50,63 @@ function explanationJson(r: ExplainedResult) {
   };
 }
 
-export function jsonReport(
+/** One claim's entry of the "claims" array. */
+export function claimJson(r: ExplainedResult) {
+  const w = r.worst;
+  return {
+    file: r.claim.file,
+    line: r.claim.line,
+    name: r.claim.name,
+    source: r.claim.source ?? null,
+    equation: r.claim.text,
+    expected: r.claim.expect,
+    verdict: r.verdict,
+    ok: r.ok,
+    digits: r.digits,
+    requested_digits: r.requested,
+    limited_by: r.limitedBy ?? null,
+    samples: r.samples,
+    reason: r.reason ?? null,
+    worst:
+      w === undefined
+        ? null
+        : {
+            tau: complexJson(w.sample.tau),
+            group:
+              w.sample.gamma === undefined
+                ? null
+                : {
+                    matrix: [
+                      [w.sample.gamma.a.toString(), w.sample.gamma.b.toString()],
+                      [w.sample.gamma.c.toString(), w.sample.gamma.d.toString()],
+                    ],
+                    word: wordToString(toWord(w.sample.gamma)),
+                  },
+            params: Object.fromEntries([...w.sample.params].map(([k, v]) => [k, complexJson(v)])),
+            lhs: complexJson(w.lhs.value),
+            rhs: complexJson(w.rhs.value),
+            residual: w.assessment.residual.isZero() ? '0' : w.assessment.residual.toSD(3).toExponential(),
+            precisions: [w.p1, w.p2],
+          },
+    ...explanationJson(r),
+  };
+}
+
+/** The counts of the summary from the verdicts. */
+export interface Tally {
+  verdict: string;
+  ok: boolean;
+}
+
+/** The whole document from the claims' entries (in order) and their verdicts. */
+export function jsonDocument(
   version: string,
   settings: RunSettings,
-  results: ExplainedResult[],
+  claims: unknown[],
+  tallies: Tally[],
   errors: { file: string; message: string }[],
 ): string {
-  const count = (v: string) => results.filter((r) => r.verdict === v).length;
-  const claims = results.map((r) => {
-    const w = r.worst;
-    return {
-      file: r.claim.file,
-      line: r.claim.line,
-      name: r.claim.name,
-      source: r.claim.source ?? null,
-      equation: r.claim.text,
-      expected: r.claim.expect,
-      verdict: r.verdict,
-      ok: r.ok,
-      digits: r.digits,
-      requested_digits: r.requested,
-      limited_by: r.limitedBy ?? null,
-      samples: r.samples,
-      reason: r.reason ?? null,
-      worst:
-        w === undefined
-          ? null
-          : {
-              tau: complexJson(w.sample.tau),
-              group:
-                w.sample.gamma === undefined
-                  ? null
-                  : {
-                      matrix: [
-                        [w.sample.gamma.a.toString(), w.sample.gamma.b.toString()],
-                        [w.sample.gamma.c.toString(), w.sample.gamma.d.toString()],
-                      ],
-                      word: wordToString(toWord(w.sample.gamma)),
-                    },
-              params: Object.fromEntries([...w.sample.params].map(([k, v]) => [k, complexJson(v)])),
-              lhs: complexJson(w.lhs.value),
-              rhs: complexJson(w.rhs.value),
-              residual: w.assessment.residual.isZero() ? '0' : w.assessment.residual.toSD(3).toExponential(),
-              precisions: [w.p1, w.p2],
-            },
-      ...explanationJson(r),
-    };
-  });
+  const count = (v: string) => tallies.filter((r) => r.verdict === v).length;
   const doc = {
     schema: 'modvet-check/1',
     version,
@@ -104,13 +114,22 @@ export function jsonReport(
     claims,
     errors,
     summary: {
-      claims: results.length,
+      claims: tallies.length,
       holds: count('holds'),
       refuted: count('refuted'),
       undecided: count('undecided'),
       error: count('error'),
-      unexpected: results.filter((r) => !r.ok).length,
+      unexpected: tallies.filter((r) => !r.ok).length,
     },
   };
   return JSON.stringify(doc, null, 2) + '\n';
+}
+
+export function jsonReport(
+  version: string,
+  settings: RunSettings,
+  results: ExplainedResult[],
+  errors: { file: string; message: string }[],
+): string {
+  return jsonDocument(version, settings, results.map(claimJson), results, errors);
 }

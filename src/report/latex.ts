@@ -240,6 +240,7 @@ const NOTES = {
   bernoulli: 'Bernoulli numbers with \\(B_1 = -1/2\\)',
   K: '\\(K_\\nu\\): modified Bessel function of the second kind',
   Gamma2: '\\(\\Gamma(a, x)\\): upper incomplete gamma function',
+  split: 'one side was evaluated by the Epstein theta splitting (EnsSplit, EstarSplit): the same function as \\(E(s,\\tau)\\), \\(E^*(s,\\tau)\\), computed by a second, independent method',
 } as const;
 type NoteKey = keyof typeof NOTES;
 
@@ -403,6 +404,7 @@ class LatexPrinter {
   private call(fn: string, args: readonly Expr[]): Tex {
     const note = CALL_NOTE[fn];
     if (note !== undefined) this.notes.add(note);
+    if (fn === 'EnsSplit' || fn === 'EstarSplit') this.notes.add('split');
     const a = args.map((x) => this.print(x));
     // a weight or order as a subscript is set in script style (a/b, not \frac)
     const low = (): Tex => this.print(args[0]!, true);

@@ -3,7 +3,6 @@
  * verdict and the seed that reproduces the run. Colour is decided by the caller.
  */
 import { Chalk, ChalkInstance } from 'chalk';
-import { ClaimResult } from '../check/run.js';
 import type { ExplainedResult } from '../diagnose/explain.js';
 import { Verdict } from '../check/claim.js';
 import { showComplex, showSample } from './describe.js';
@@ -64,7 +63,7 @@ export function claimLines(r: ExplainedResult, opts: TextOptions): string[] {
   return lines;
 }
 
-export function summaryLine(results: ClaimResult[], seed: number, parseFailures: number, color: boolean): string {
+export function summaryLine(results: readonly { verdict: Verdict; ok: boolean }[], seed: number, parseFailures: number, color: boolean): string {
   const c = painter(color);
   const count = (v: Verdict) => results.filter((r) => r.verdict === v).length;
   const bad = results.filter((r) => !r.ok).length;
