@@ -10,6 +10,7 @@ import { ModvetError } from '../numeric/errors.js';
 import { checkDigits } from '../numeric/precision.js';
 import { demoLines } from './demo.js';
 import { CheckFlags, runCheck } from './check.js';
+import { runWatch } from './watch.js';
 import { runList } from './list.js';
 import { EvalFlags, runEval } from './eval.js';
 import { PlotFlags, runPlot } from './plot.js';
@@ -65,8 +66,9 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     .option('--fix', 'write the suggested fixes that hold to <file>.fixed.vet beside each file (never overwrites)')
     .option('-j, --jobs <n>', 'check claims on n worker threads (default: the number of cores); the report is the same for every n')
     .option('--shard <k/n>', 'check only the k-th of n parts of the claims (every n-th claim from the k-th), for a CI matrix')
-    .action(async (paths: string[], flags: CheckFlags) => {
-      code = await runCheck(paths, flags, io, cwd);
+    .option('--watch', 'check, then check a file again whenever it changes (Ctrl-C to stop)')
+    .action(async (paths: string[], flags: CheckFlags & { watch?: boolean }) => {
+      code = flags.watch === true ? await runWatch(paths, flags, io, cwd) : await runCheck(paths, flags, io, cwd);
     });
 
   program

@@ -72,5 +72,5 @@ export function summaryLine(results: readonly { verdict: Verdict; ok: boolean }[
     bad === 0 && parseFailures === 0
       ? c.green('all as expected')
       : c.red(`${bad} not as expected${parseFailures > 0 ? `, ${parseFailures} file(s) could not be read or parsed` : ''}`);
-  return `${results.length} claims: ${verdicts}; ${status}. Seed ${seed} reproduces this run. Numerical agreement is evidence, not proof.`;
+  return `${results.length} ${results.length === 1 ? "claim" : "claims"}: ${verdicts}; ${status}. Seed ${seed} reproduces this run. Numerical agreement is evidence, not proof.`;
 }
