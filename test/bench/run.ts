@@ -120,18 +120,26 @@ const rows: BenchRow[] = [
   ...modularRows(),
 ];
 
-/** The whole shipped library at the default settings (30 digits, 16 samples), in-process. */
+/**
+ * The whole shipped library at the default settings (30 digits, 16 samples), in-process,
+ * with one worker thread and with two: the speed-up of --jobs 2 on this machine's cores.
+ */
 async function libraryTiming(): Promise<void> {
-  let out = '';
-  const t0 = performance.now();
-  const code = await run(['check', 'identities', '--json'], { out: (x) => (out += x), err: () => {} });
-  const secs = (performance.now() - t0) / 1000;
-  const doc = JSON.parse(out) as { summary: { claims: number; unexpected: number } };
-  const n = doc.summary.claims;
-  console.log(
-    `\nmodvet check identities/ (30 digits, 16 samples, seed 1): ${n} claims in ${secs.toFixed(1)} s, ` +
-      `${(n / secs).toFixed(1)} claims per second; exit code ${code}, ${doc.summary.unexpected} not as expected`,
-  );
+  const once = async (jobs: number) => {
+    let out = '';
+    const t0 = performance.now();
+    const code = await run(['check', 'identities', '--json', '--jobs', String(jobs)], { out: (x) => (out += x), err: () => {} });
+    const secs = (performance.now() - t0) / 1000;
+    const doc = JSON.parse(out) as { summary: { claims: number; unexpected: number } };
+    return { secs, code, n: doc.summary.claims, unexpected: doc.summary.unexpected, out };
+  };
+  const one = await once(1);
+  const two = await once(2);
+  console.log(`\nmodvet check identities/ (30 digits, 16 samples, seed 1), ${one.n} claims:`);
+  for (const [j, r] of [[1, one], [2, two]] as const) {
+    console.log(`  --jobs ${j}: ${r.secs.toFixed(1)} s, ${(r.n / r.secs).toFixed(1)} claims per second; exit code ${r.code}, ${r.unexpected} not as expected`);
+  }
+  console.log(`  speed-up of --jobs 2: ${(one.secs / two.secs).toFixed(2)}x; reports identical: ${one.out === two.out ? 'yes' : 'NO'}`);
 }
 
 function main(): void {
