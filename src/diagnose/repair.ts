@@ -39,7 +39,7 @@ import { Decimal } from 'decimal.js';
 import type { BuiltinName, Claim, Expr, Settings, Span } from '../lang/ast.js';
 import { dependsOnTau } from '../lang/depends.js';
 import { parseSource } from '../lang/parser.js';
-import { printExpr, PrintError } from '../lang/print.js';
+import { Level, levelOf, printExpr, PrintError, wrappedInParens } from '../lang/print.js';
 import { ModvetError } from '../numeric/errors.js';
 import { MAX_DIGITS, withDigits } from '../numeric/precision.js';
 import type { CheckableClaim } from '../check/claim.js';
@@ -89,15 +89,6 @@ export interface Candidate {
 // Text: where an edit goes and how it is parenthesised (the grammar of parser.ts, as in
 // print.ts: + - < * / < unary minus < ^, ^ right-associative and tighter than unary minus)
 
-const enum Level {
-  Any = 0,
-  Add = 1,
-  Mul = 2,
-  Neg = 3,
-  Pow = 4,
-  Atom = 5,
-}
-
 /** What a spot requires of the text put there: a binding level, and no bare negation. */
 interface Spot {
   min: Level;
@@ -110,22 +101,6 @@ function fit(text: string, level: Level, spot: Spot): string {
   return level < spot.min || (spot.noNeg && level === Level.Neg) ? `(${text})` : text;
 }
 
-function levelOf(e: Expr): Level {
-  if (e.kind === 'neg') return Level.Neg;
-  if (e.kind !== 'binary') return Level.Atom;
-  return e.op === '^' ? Level.Pow : e.op === '*' || e.op === '/' ? Level.Mul : Level.Add;
-}
-
-function wrappedInParens(s: string): boolean {
-  if (!s.startsWith('(') || !s.endsWith(')')) return false;
-  let depth = 0;
-  for (let k = 0; k < s.length; k++) {
-    if (s[k] === '(') depth++;
-    else if (s[k] === ')') depth--;
-    if (depth === 0 && k < s.length - 1) return false;
-  }
-  return true;
-}
 
 /** The file text with [start, end) replaced by `text`. */
 export function replaceSpan(fileText: string, start: number, end: number, text: string): string {

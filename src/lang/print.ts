@@ -47,7 +47,7 @@ export class PrintError extends Error {
 }
 
 /** Binding strength of a printed form; a slot requires at least some level. */
-const enum Level {
+export enum Level {
   Any = 0,
   Add = 1,
   Mul = 2,
@@ -98,7 +98,8 @@ function isExponentSign(s: string, k: number): boolean {
   return j < 0 || !/[A-Za-z0-9_]/.test(s[j]!);
 }
 
-function wrappedInParens(s: string): boolean {
+/** Whether s is one parenthesised group, e.g. '(a + b)' but not '(a) + (b)'. */
+export function wrappedInParens(s: string): boolean {
   if (!s.startsWith('(') || !s.endsWith(')')) return false;
   let depth = 0;
   for (let k = 0; k < s.length; k++) {
@@ -257,6 +258,13 @@ class Printer {
     this.freeTauMemo.set(call, r);
     return r;
   }
+}
+
+/** The binding level of a node's own operator (what printing it needs from its spot). */
+export function levelOf(e: Expr): Level {
+  if (e.kind === 'neg') return Level.Neg;
+  if (e.kind !== 'binary') return Level.Atom;
+  return e.op === '^' ? Level.Pow : e.op === '*' || e.op === '/' ? Level.Mul : Level.Add;
 }
 
 /** The expression in the claim language (module header); throws PrintError where it has no surface form. */
