@@ -5,17 +5,9 @@
  */
 import type { ExplainedResult } from '../diagnose/explain.js';
 import { showComplex, showSample } from './describe.js';
+import { escapeXml } from './svg.js';
 
-function esc(s: string): string {
-  return s
-    .replace(/&/g, '&amp;')
-    .replace(/</g, '&lt;')
-    .replace(/>/g, '&gt;')
-    .replace(/"/g, '&quot;')
-    .replace(/'/g, '&apos;')
-    // characters XML 1.0 forbids
-    .replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f]/g, '');
-}
+const esc = escapeXml;
 
 /** One claim's <testcase> element (indented for its testsuite), for junitDocument. */
 export interface JunitCase {
