@@ -2,6 +2,7 @@
  * `npm run bench`: median microseconds per evaluation, modvet beside mpmath, same
  * seeded arguments, same run. See test/bench/harness.ts for the timing method.
  */
+import { spawn } from 'node:child_process';
 import { Decimal } from 'decimal.js';
 import { Complex } from '../../src/numeric/complex.js';
 import { Random } from '../../src/numeric/random.js';
@@ -140,6 +141,28 @@ async function libraryTiming(): Promise<void> {
     console.log(`  --jobs ${j}: ${r.secs.toFixed(1)} s, ${(r.n / r.secs).toFixed(1)} claims per second; exit code ${r.code}, ${r.unexpected} not as expected`);
   }
   console.log(`  speed-up of --jobs 2: ${(one.secs / two.secs).toFixed(2)}x; reports identical: ${one.out === two.out ? 'yes' : 'NO'}`);
+  const m = await machineCeiling();
+  console.log(
+    `  this machine's own ceiling: two CPU-bound processes (a plain integer loop) take ${m.pair.toFixed(1)} s side by side ` +
+      `against ${m.single.toFixed(1)} s for one, i.e. ${((2 * m.single) / m.pair).toFixed(2)}x the throughput of one core`,
+  );
+}
+
+/** Wall time of a plain integer loop in a child process, alone and as two side by side. */
+async function machineCeiling(): Promise<{ single: number; pair: number }> {
+  const loop = 'let x = 0; for (let i = 0; i < 2e8; i++) x = (x * 1103515245 + 12345) % 2147483648; if (x < 0) console.log(x);';
+  const child = () =>
+    new Promise<void>((resolve, reject) => {
+      const p = spawn(process.execPath, ['-e', loop], { stdio: 'ignore' });
+      p.on('exit', () => resolve());
+      p.on('error', reject);
+    });
+  let t = performance.now();
+  await child();
+  const single = (performance.now() - t) / 1000;
+  t = performance.now();
+  await Promise.all([child(), child()]);
+  return { single, pair: (performance.now() - t) / 1000 };
 }
 
 function main(): void {
