@@ -16,6 +16,7 @@ import { fixedFileText, shrinkBudget, type ClaimFix } from '../diagnose/explain.
 import { summaryLine } from '../report/text.js';
 import { jsonDocument } from '../report/json.js';
 import { junitDocument } from '../report/junit.js';
+import { htmlDocument } from '../report/html.js';
 import { findClaimFiles } from './files.js';
 import { digitsOption, intOption, namePattern, shardOption, UsageError, yMinOption } from './options.js';
 import { runUnits } from './pool.js';
@@ -34,6 +35,8 @@ export interface CheckFlags {
   only?: string;
   json?: boolean;
   junit?: string;
+  /** Also write the HTML report (plots per claim) to this file. */
+  report?: string;
   quiet?: boolean;
   fix?: boolean;
   jobs?: string;
@@ -94,6 +97,9 @@ export async function runCheck(paths: string[], flags: CheckFlags, io: Streams, 
   if (flags.junit !== undefined && flags.junit.endsWith('.vet')) {
     throw new UsageError(`--junit ${flags.junit}: refusing to write a report over a claim file`);
   }
+  if (flags.report !== undefined && flags.report.endsWith('.vet')) {
+    throw new UsageError(`--report ${flags.report}: refusing to write a report over a claim file`);
+  }
   const found = findClaimFiles(paths.length > 0 ? paths : ['identities'], cwd);
   const problems = [...found.problems];
   if (found.files.length === 0 && problems.length === 0) {
@@ -130,7 +136,7 @@ export async function runCheck(paths: string[], flags: CheckFlags, io: Streams, 
   const mine = shard === null ? units : units.filter((u) => u.index % shard.n === shard.k - 1);
   const selected = mine.map((u, k) => ({ ...u, index: k }));
 
-  const settings: UnitSettings = { cli, seed, color, quiet: flags.quiet ?? false };
+  const settings: UnitSettings = { cli, seed, color, quiet: flags.quiet ?? false, ...(flags.report !== undefined ? { html: true } : {}) };
   const progress = io.progress === true && !flags.quiet && selected.length > 0 ? new Progress(selected.length, { write: io.err, ...(io.columns !== undefined ? { columns: io.columns } : {}) }) : null;
   // text lines are printed in claim order as soon as the claims before them are done
   const ready = new Map<number, UnitOutcome>();
@@ -187,6 +193,21 @@ export async function runCheck(paths: string[], flags: CheckFlags, io: Streams, 
       writeFileSync(resolve(cwd, flags.junit), junitDocument(outcomes.map((o) => o.junit), problems));
     } catch (e) {
       io.err(`modvet: cannot write the JUnit report ${flags.junit}: ${e instanceof Error ? e.message : String(e)}\n`);
+      return 2;
+    }
+  }
+  if (flags.report !== undefined) {
+    const page = htmlDocument({
+      version: VERSION,
+      settings: runSettings,
+      claims: outcomes.map((o) => o.html!),
+      problems,
+      ...(shard !== null ? { note: `Shard ${shard.k}/${shard.n}: ${selected.length} of ${units.length} claims.` } : {}),
+    });
+    try {
+      writeFileSync(resolve(cwd, flags.report), page);
+    } catch (e) {
+      io.err(`modvet: cannot write the HTML report ${flags.report}: ${e instanceof Error ? e.message : String(e)}\n`);
       return 2;
     }
   }

@@ -62,6 +62,7 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     .option('--only <pattern>', 'only claims whose name matches (substring, or * wildcards)')
     .option('--json', 'print a JSON report (schema modvet-check/1) on stdout')
     .option('--junit <file>', 'also write a JUnit XML report to <file>')
+    .option('--report <file>', 'also write an HTML report to <file>: a table of the claims, and per claim both sides along a path and the residual at each sample')
     .option('-q, --quiet', 'print only the claims that did not get their expected verdict')
     .option('--fix', 'write the suggested fixes that hold to <file>.fixed.vet beside each file (never overwrites)')
     .option('-j, --jobs <n>', 'check claims on n worker threads (default: the number of cores); the report is the same for every n')

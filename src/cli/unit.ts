@@ -18,6 +18,8 @@ import type { SpanEdit } from '../diagnose/types.js';
 import { claimLines } from '../report/text.js';
 import { claimJson } from '../report/json.js';
 import { junitCase, type JunitCase } from '../report/junit.js';
+import type { HtmlClaim } from '../report/html.js';
+import { htmlClaim } from '../report/claimPlot.js';
 
 export const DEFAULTS = { digits: 30, samples: 16, seed: 1, yMin: 0.02 } as const;
 
@@ -27,6 +29,8 @@ export interface UnitSettings {
   seed: number;
   color: boolean;
   quiet: boolean;
+  /** Render the claim's piece of the HTML report (`check --report`): plots, so only when asked. */
+  html?: boolean;
 }
 
 export interface Unit {
@@ -52,6 +56,8 @@ export interface UnitOutcome {
   json: ReturnType<typeof claimJson>;
   junit: JunitCase;
   fix: UnitFix | null;
+  /** The HTML report's piece (when UnitSettings.html is set). */
+  html?: HtmlClaim;
 }
 
 /** A claim that could not even be set up (a bad clause value) is reported as an error. */
@@ -84,8 +90,10 @@ export function runUnit(unit: Unit, s: UnitSettings): UnitOutcome {
   const fileSeed = s.cli.seed ?? ast.defaults.seed;
   let result: ExplainedResult;
   let fix: UnitFix | null = null;
+  let setUp = false;
   try {
     const checkable = toCheckable(claim, defaults);
+    setUp = true;
     if (checkable.seed === undefined && fileSeed !== undefined) checkable.seed = fileSeed;
     const opts = {
       digits: defaults.digits ?? DEFAULTS.digits,
@@ -103,6 +111,7 @@ export function runUnit(unit: Unit, s: UnitSettings): UnitOutcome {
     }
   } catch (e) {
     if (!(e instanceof ModvetError)) throw e;
+    setUp = false;
     result = setupFailure(
       { file: unit.file, line: claim.span.line, name: claim.name, text: claim.text, expect: claim.expect, ...(claim.source !== undefined ? { source: claim.source } : {}) },
       e.message,
@@ -119,5 +128,6 @@ export function runUnit(unit: Unit, s: UnitSettings): UnitOutcome {
     json: claimJson(result),
     junit: junitCase(result),
     fix,
+    ...(s.html === true ? { html: htmlClaim(result, { claim: setUp ? claim : null, index: unit.index, yMin: defaults.yMin ?? DEFAULTS.yMin }) } : {}),
   };
 }
