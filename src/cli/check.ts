@@ -11,8 +11,9 @@ import { availableParallelism } from 'node:os';
 import { basename, dirname, join, resolve } from 'node:path';
 import { parseSource } from '../lang/parser.js';
 import { renderDiagnostic } from '../lang/diagnostics.js';
-import type { Claim, Settings } from '../lang/ast.js';
-import { fixedFileText, shrinkBudget, type ClaimFix } from '../diagnose/explain.js';
+import type { Claim, FileAst, Settings } from '../lang/ast.js';
+import { fixedFileText, type ClaimFix } from '../diagnose/explain.js';
+import { evaluationCost } from '../report/claimPlot.js';
 import { summaryLine } from '../report/text.js';
 import { jsonDocument } from '../report/json.js';
 import { junitDocument } from '../report/junit.js';
@@ -81,37 +82,36 @@ function writeFixes(file: string, text: string, fixes: ClaimFix[], cwd: string, 
   return false;
 }
 
-/** A cost hint for the dispatch order (pool.ts): lattice sums and operators first. */
+/** A cost hint for the dispatch order (pool.ts): the estimated cost of one evaluation. */
 function unitCost(claims: Map<string, Claim[]>): (u: Unit) => number {
   return (u) => {
     const claim = claims.get(u.file)?.[u.claim];
-    return claim === undefined ? 0 : shrinkBudget(claim) < 20 ? 1 : 0;
+    return claim === undefined ? 0 : evaluationCost(claim);
   };
 }
 
-export async function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: string): Promise<number> {
-  const cli = parseFlags(flags);
-  const only = flags.only !== undefined ? namePattern(flags.only) : null;
-  const jobs = flags.jobs !== undefined ? intOption('--jobs', flags.jobs, 1, 256) : Math.max(1, availableParallelism());
-  const shard = flags.shard !== undefined ? shardOption(flags.shard) : null;
-  if (flags.junit !== undefined && flags.junit.endsWith('.vet')) {
-    throw new UsageError(`--junit ${flags.junit}: refusing to write a report over a claim file`);
-  }
-  if (flags.report !== undefined && flags.report.endsWith('.vet')) {
-    throw new UsageError(`--report ${flags.report}: refusing to write a report over a claim file`);
-  }
+export interface LoadedClaims {
+  found: ReturnType<typeof findClaimFiles>;
+  /** Files that could not be read or parsed (reported at the end of the run). */
+  problems: { file: string; message: string }[];
+  /** The claims to check, in file order, filtered by --only. */
+  units: Unit[];
+  texts: Map<string, string>;
+  claims: Map<string, Claim[]>;
+  lets: Map<string, FileAst['lets']>;
+}
+
+/** Finds and parses the claim files (diagnostics on stderr) and lists their claims as units. */
+export function loadClaims(paths: string[], only: ((name: string) => boolean) | null, io: Streams, cwd: string): LoadedClaims {
   const found = findClaimFiles(paths.length > 0 ? paths : ['identities'], cwd);
   const problems = [...found.problems];
   if (found.files.length === 0 && problems.length === 0) {
     problems.push({ file: paths.join(' ') || 'identities', message: 'no .vet files found' });
   }
-  const color = io.color ?? false;
-  const seed = cli.seed ?? DEFAULTS.seed;
-
-  // parse every file first (its diagnostics on stderr), then list the claims to check
   const units: Unit[] = [];
   const texts = new Map<string, string>();
   const claims = new Map<string, Claim[]>();
+  const lets = new Map<string, FileAst['lets']>();
   for (const file of found.files) {
     let text: string;
     try {
@@ -127,11 +127,29 @@ export async function runCheck(paths: string[], flags: CheckFlags, io: Streams, 
     }
     texts.set(file, text);
     claims.set(file, ast.claims);
+    lets.set(file, ast.lets);
     ast.claims.forEach((claim, k) => {
       if (only !== null && !only(claim.name)) return;
       units.push({ index: units.length, file, text, claim: k });
     });
   }
+  return { found, problems, units, texts, claims, lets };
+}
+
+export async function runCheck(paths: string[], flags: CheckFlags, io: Streams, cwd: string): Promise<number> {
+  const cli = parseFlags(flags);
+  const only = flags.only !== undefined ? namePattern(flags.only) : null;
+  const jobs = flags.jobs !== undefined ? intOption('--jobs', flags.jobs, 1, 256) : Math.max(1, availableParallelism());
+  const shard = flags.shard !== undefined ? shardOption(flags.shard) : null;
+  if (flags.junit !== undefined && flags.junit.endsWith('.vet')) {
+    throw new UsageError(`--junit ${flags.junit}: refusing to write a report over a claim file`);
+  }
+  if (flags.report !== undefined && flags.report.endsWith('.vet')) {
+    throw new UsageError(`--report ${flags.report}: refusing to write a report over a claim file`);
+  }
+  const { found, problems, units, texts, claims } = loadClaims(paths, only, io, cwd);
+  const color = io.color ?? false;
+  const seed = cli.seed ?? DEFAULTS.seed;
   // --shard k/n: every n-th claim from the k-th on, so the parts together are the whole run
   const mine = shard === null ? units : units.filter((u) => u.index % shard.n === shard.k - 1);
   const selected = mine.map((u, k) => ({ ...u, index: k }));

@@ -8,6 +8,8 @@
  *
  *   const outcomes = await runUnits(units, settings, 2, { cost, started, finished })
  */
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { runUnit, type Unit, type UnitOutcome, type UnitSettings } from './unit.js';
 
@@ -36,7 +38,10 @@ function dispatchOrder(units: readonly Unit[], cost?: (u: Unit) => number): Unit
 
 export async function runUnits(units: readonly Unit[], s: UnitSettings, jobs: number, ev: PoolEvents = {}): Promise<UnitOutcome[]> {
   const out: UnitOutcome[] = [];
-  const n = Math.max(1, Math.min(jobs, units.length));
+  // worker threads run the built JavaScript; from the TypeScript sources (in-process
+  // tests) there is none to start, and the units run inline with the same results
+  const workerUrl = new URL('./worker.js', import.meta.url);
+  const n = existsSync(fileURLToPath(workerUrl)) ? Math.max(1, Math.min(jobs, units.length)) : 1;
   if (n === 1) {
     for (const u of units) {
       ev.started?.(u);
@@ -53,7 +58,7 @@ export async function runUnits(units: readonly Unit[], s: UnitSettings, jobs: nu
   try {
     await Promise.all(
       Array.from({ length: n }, async () => {
-        const w = new Worker(new URL('./worker.js', import.meta.url));
+        const w = new Worker(workerUrl);
         workers.push(w);
         for (let u = queue.shift(); u !== undefined; u = queue.shift()) {
           ev.started?.(u);

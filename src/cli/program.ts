@@ -117,8 +117,9 @@ export async function run(argv: string[], io: Streams): Promise<number> {
     .option('--only <pattern>', 'only claims whose name matches (substring, or * wildcards)')
     .option('-o, --out <file>', 'write the LaTeX to <file> instead of stdout (never a .vet file)')
     .option('--standalone', 'a whole document (article, amsmath, amssymb) instead of a fragment to \\input')
-    .action((paths: string[], flags: TexFlags) => {
-      code = runTex(paths, flags, io, cwd);
+    .option('-j, --jobs <n>', 'check claims on n worker threads (default: the number of cores)')
+    .action(async (paths: string[], flags: TexFlags) => {
+      code = await runTex(paths, flags, io, cwd);
     });
 
   program

@@ -8,18 +8,13 @@
  * (a message, never a stack trace); else 1 when some claim did not get its expected verdict
  * (as `check`); else 0.
  */
-import { readFileSync, writeFileSync } from 'node:fs';
+import { writeFileSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { resolve } from 'node:path';
-import { parseSource } from '../lang/parser.js';
-import { renderDiagnostic } from '../lang/diagnostics.js';
-import type { Settings } from '../lang/ast.js';
-import { ModvetError } from '../numeric/errors.js';
-import { toCheckable } from '../check/fromAst.js';
-import { checkClaim } from '../check/run.js';
 import { latexDocument, TexEntry } from '../report/latex.js';
-import { DEFAULTS, parseFlags } from './check.js';
-import { findClaimFiles } from './files.js';
-import { namePattern, UsageError } from './options.js';
+import { DEFAULTS, loadClaims, parseFlags } from './check.js';
+import { intOption, namePattern, UsageError } from './options.js';
+import { runUnits } from './pool.js';
 import type { Streams } from './program.js';
 import { VERSION } from './version.js';
 
@@ -31,82 +26,50 @@ export interface TexFlags {
   only?: string;
   out?: string;
   standalone?: boolean;
+  jobs?: string;
 }
 
-export function runTex(paths: string[], flags: TexFlags, io: Streams, cwd: string): number {
+export async function runTex(paths: string[], flags: TexFlags, io: Streams, cwd: string): Promise<number> {
   const cli = parseFlags(flags);
   const only = flags.only !== undefined ? namePattern(flags.only) : null;
+  const jobs = flags.jobs !== undefined ? intOption('--jobs', flags.jobs, 1, 256) : Math.max(1, availableParallelism());
   if (flags.out !== undefined && flags.out.endsWith('.vet')) {
     throw new UsageError(`--out ${flags.out}: refusing to write LaTeX over a claim file`);
   }
-  const found = findClaimFiles(paths.length > 0 ? paths : ['identities'], cwd);
-  const problems = [...found.problems];
-  if (found.files.length === 0 && problems.length === 0) {
-    problems.push({ file: paths.join(' ') || 'identities', message: 'no .vet files found' });
-  }
+  // the claims are found, parsed and checked exactly as `check` does (check.ts, unit.ts)
+  const { problems, units, claims, lets } = loadClaims(paths, only, io, cwd);
   const seed = cli.seed ?? DEFAULTS.seed;
+  const outcomes = await runUnits(units, { cli, seed, color: false, quiet: true, explain: false }, jobs);
   const entries: TexEntry[] = [];
-  let checked = 0;
   let notAsExpected = 0;
-  for (const file of found.files) {
-    let text: string;
-    try {
-      text = readFileSync(resolve(cwd, file), 'utf8');
-    } catch (e) {
-      problems.push({ file, message: e instanceof Error ? e.message : String(e) });
+  for (const u of units) {
+    const o = outcomes[u.index]!;
+    const claim = claims.get(u.file)![u.claim]!;
+    if (!o.ok) notAsExpected++;
+    if (o.verdict !== 'holds') {
+      const why = o.record.reason !== undefined ? `: ${o.record.reason}` : '';
+      io.err(`modvet tex: skipped "${claim.name}" (${u.file}:${claim.span.line}): ${o.verdict}${why} (expected ${claim.expect})\n`);
       continue;
     }
-    const { ast, diagnostics } = parseSource(text, file);
-    if (diagnostics.length > 0) {
-      for (const d of diagnostics) io.err(renderDiagnostic(d, text) + '\n');
-      problems.push({ file, message: `${diagnostics.length} problem(s) in the file; the claims that parsed were checked` });
-    }
-    // as in check.ts: the command line overrides the file's `use` line; a claim's clauses override both
-    const defaults: Settings = { ...ast.defaults, ...cli };
-    const fileSeed = cli.seed ?? ast.defaults.seed;
-    for (const claim of ast.claims) {
-      if (only !== null && !only(claim.name)) continue;
-      checked++;
-      const where = `${file}:${claim.span.line}`;
-      try {
-        const checkable = toCheckable(claim, defaults);
-        if (checkable.seed === undefined && fileSeed !== undefined) checkable.seed = fileSeed;
-        const yMin = defaults.yMin ?? DEFAULTS.yMin;
-        const r = checkClaim(checkable, {
-          digits: defaults.digits ?? DEFAULTS.digits,
-          samples: defaults.samples ?? DEFAULTS.samples,
-          seed,
-          yMin,
-        });
-        if (!r.ok) notAsExpected++;
-        if (r.verdict !== 'holds') {
-          const why = r.reason !== undefined ? `: ${r.reason}` : '';
-          io.err(`modvet tex: skipped "${claim.name}" (${where}): ${r.verdict}${why} (expected ${claim.expect})\n`);
-          continue;
-        }
-        entries.push({
-          claim,
-          lets: ast.lets,
-          check: {
-            file,
-            line: claim.span.line,
-            points: r.samples,
-            digits: r.digits,
-            requested: r.requested,
-            seed: checkable.seed ?? seed,
-            yMin: checkable.yMin ?? yMin,
-            ...(r.limitedBy !== undefined ? { limitedBy: r.limitedBy } : {}),
-            ...(r.worst?.assessment.vanishing === true ? { vanishing: true } : {}),
-            version: VERSION,
-          },
-        });
-      } catch (e) {
-        if (!(e instanceof ModvetError)) throw e;
-        notAsExpected++;
-        io.err(`modvet tex: skipped "${claim.name}" (${where}): error: ${e.message}\n`);
-      }
-    }
+    const r = o.record;
+    entries.push({
+      claim,
+      lets: lets.get(u.file)!,
+      check: {
+        file: u.file,
+        line: claim.span.line,
+        points: r.samples,
+        digits: r.digits,
+        requested: r.requested,
+        seed: r.seed,
+        yMin: r.yMin,
+        ...(r.limitedBy !== undefined ? { limitedBy: r.limitedBy } : {}),
+        ...(r.vanishing === true ? { vanishing: true } : {}),
+        version: VERSION,
+      },
+    });
   }
+  const checked = units.length;
   for (const p of problems) io.err(`modvet: ${p.file}: ${p.message}\n`);
   const command = ['modvet tex', ...paths, ...flagWords(flags)].join(' ');
   const tex = latexDocument(entries, { standalone: flags.standalone === true, version: VERSION, command });

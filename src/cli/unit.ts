@@ -31,6 +31,8 @@ export interface UnitSettings {
   quiet: boolean;
   /** Render the claim's piece of the HTML report (`check --report`): plots, so only when asked. */
   html?: boolean;
+  /** Explain refuted claims (default true; `tex` needs only the verdicts). */
+  explain?: boolean;
 }
 
 export interface Unit {
@@ -45,6 +47,18 @@ export interface Unit {
 /** A fix that holds, by claim index (explain.ts ClaimFix without the AST). */
 export type UnitFix = { claim: number; rhs: string } | { claim: number; edit: SpanEdit };
 
+export interface CheckRecord {
+  samples: number;
+  digits: number;
+  requested: number;
+  seed: number;
+  yMin: number;
+  reason?: string;
+  limitedBy?: string;
+  /** Whether the worst sample was judged against the terms (both sides vanish). */
+  vanishing?: boolean;
+}
+
 export interface UnitOutcome {
   index: number;
   name: string;
@@ -56,6 +70,8 @@ export interface UnitOutcome {
   json: ReturnType<typeof claimJson>;
   junit: JunitCase;
   fix: UnitFix | null;
+  /** What the check did, for records such as the LaTeX comments (tex.ts). */
+  record: CheckRecord;
   /** The HTML report's piece (when UnitSettings.html is set). */
   html?: HtmlClaim;
 }
@@ -91,10 +107,12 @@ export function runUnit(unit: Unit, s: UnitSettings): UnitOutcome {
   let result: ExplainedResult;
   let fix: UnitFix | null = null;
   let setUp = false;
+  let usedSeed = s.seed;
   try {
     const checkable = toCheckable(claim, defaults);
     setUp = true;
     if (checkable.seed === undefined && fileSeed !== undefined) checkable.seed = fileSeed;
+    usedSeed = checkable.seed ?? s.seed;
     const opts = {
       digits: defaults.digits ?? DEFAULTS.digits,
       samples: defaults.samples ?? DEFAULTS.samples,
@@ -102,7 +120,7 @@ export function runUnit(unit: Unit, s: UnitSettings): UnitOutcome {
       yMin: defaults.yMin ?? DEFAULTS.yMin,
     };
     result = checkClaim(checkable, opts);
-    if (result.verdict === 'refuted') {
+    if (result.verdict === 'refuted' && s.explain !== false) {
       // say what is off, where it fails most simply, and check the corrected claim
       const explanation = explainRefuted(result, { claim, fileText: unit.text, defaults }, opts);
       result = { ...result, explanation };
@@ -128,6 +146,16 @@ export function runUnit(unit: Unit, s: UnitSettings): UnitOutcome {
     json: claimJson(result),
     junit: junitCase(result),
     fix,
+    record: {
+      samples: result.samples,
+      digits: result.digits,
+      requested: result.requested,
+      seed: usedSeed,
+      yMin: result.claim.yMin ?? defaults.yMin ?? DEFAULTS.yMin,
+      ...(result.reason !== undefined ? { reason: result.reason } : {}),
+      ...(result.limitedBy !== undefined ? { limitedBy: result.limitedBy } : {}),
+      ...(result.worst?.assessment.vanishing === true ? { vanishing: true } : {}),
+    },
     ...(s.html === true ? { html: htmlClaim(result, { claim: setUp ? claim : null, index: unit.index, yMin: defaults.yMin ?? DEFAULTS.yMin }) } : {}),
   };
 }
