@@ -29,3 +29,8 @@ export function showSample(s: Sample, groupVar?: string): string {
   for (const [k, v] of s.params) parts.push(`${k} = ${showComplex(v)}`);
   return parts.join(', ');
 }
+
+/** "1 sample", "16 samples". */
+export function samplesText(n: number): string {
+  return n === 1 ? '1 sample' : `${n} samples`;
+}

@@ -14,6 +14,7 @@
  * Same inputs, same bytes, except the times (per claim, and their total).
  */
 import type { Verdict } from '../check/claim.js';
+import { samplesText } from './describe.js';
 import { escapeXml } from './svg.js';
 import type { RunSettings } from './json.js';
 
@@ -201,12 +202,12 @@ function outcomeLine(c: HtmlClaim): string {
   if (c.verdict === 'holds') {
     const against = c.vanishing ? ' of the terms (both sides vanish)' : '';
     const limited = c.limitedBy !== undefined ? `, limited by ${esc(c.limitedBy)}` : '';
-    return `Agrees to ${c.digits} digits${against}${limited} at the worst of ${c.samples} samples (${c.requested} requested), ${seconds(c.timeMs)}.`;
+    return `Agrees to ${c.digits} digits${against}${limited} at the worst of ${samplesText(c.samples)} (${c.requested} requested), ${seconds(c.timeMs)}.`;
   }
   if (c.verdict === 'refuted') {
-    return `Fails: relative residual ${esc(c.worst?.residual ?? '?')} at the worst of ${c.samples} samples, ${seconds(c.timeMs)}.`;
+    return `Fails: relative residual ${esc(c.worst?.residual ?? '?')} at the worst of ${samplesText(c.samples)}, ${seconds(c.timeMs)}.`;
   }
-  return `${esc(c.verdict === 'error' ? 'Error' : 'Undecided')}: ${esc(c.reason ?? 'no reason recorded')} (${c.samples} samples, ${seconds(c.timeMs)}).`;
+  return `${esc(c.verdict === 'error' ? 'Error' : 'Undecided')}: ${esc(c.reason ?? 'no reason recorded')} (${samplesText(c.samples)}, ${seconds(c.timeMs)}).`;
 }
 
 function claimSection(c: HtmlClaim, k: number): string[] {

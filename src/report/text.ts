@@ -5,7 +5,7 @@
 import { Chalk, ChalkInstance } from 'chalk';
 import type { ExplainedResult } from '../diagnose/explain.js';
 import { Verdict } from '../check/claim.js';
-import { showComplex, showSample } from './describe.js';
+import { samplesText, showComplex, showSample } from './describe.js';
 
 export interface TextOptions {
   color: boolean;
@@ -33,12 +33,12 @@ export function claimLines(r: ExplainedResult, opts: TextOptions): string[] {
     // where both sides vanish, agreement is measured against the terms that formed them
     const against = r.worst?.assessment.vanishing === true ? ' of the terms (both sides vanish)' : '';
     const limited = r.limitedBy !== undefined ? `, limited by ${r.limitedBy}` : '';
-    lines.push(`          agrees to ${r.digits} digits${against}${limited} at the worst of ${r.samples} samples, ${secs} s${expected}`);
+    lines.push(`          agrees to ${r.digits} digits${against}${limited} at the worst of ${samplesText(r.samples)}, ${secs} s${expected}`);
   } else if (r.verdict === 'refuted') {
     const res = r.worst?.assessment.residual.toSD(3).toString() ?? '?';
-    lines.push(`          fails: relative residual ${res} at the worst of ${r.samples} samples, ${secs} s${expected}`);
+    lines.push(`          fails: relative residual ${res} at the worst of ${samplesText(r.samples)}, ${secs} s${expected}`);
   } else {
-    lines.push(`          ${r.reason ?? 'no reason recorded'} (${r.samples} samples, ${secs} s)${expected}`);
+    lines.push(`          ${r.reason ?? 'no reason recorded'} (${samplesText(r.samples)}, ${secs} s)${expected}`);
   }
   const showWorst = r.worst !== undefined && (r.verdict === 'refuted' || (!r.ok && !opts.quiet));
   if (showWorst && r.worst !== undefined) {
