@@ -210,6 +210,8 @@ function extrapolated(e: LatticeSum, ctx: LatticeContext, k: Complex, target: De
   const p = k.sub(Complex.of(2));
   // f(-m, -n) = c f(m, n) with c = +-1 (checked at the probe pairs): sum half the lattice
   const c = reflectionSign(ctx);
+  // an odd summand: the terms of (m, n) and (-m, -n) cancel exactly, nothing is truncated
+  if (c === -1) return { v: Complex.ZERO, s: ZERO, rel: ZERO };
   let sum = Complex.ZERO;
   let scale = ZERO;
   const add = (m: number, n: number): void => {
@@ -237,7 +239,7 @@ function extrapolated(e: LatticeSum, ctx: LatticeContext, k: Complex, target: De
     }
     R = cp;
     Rs.push(cp);
-    Ss.push(c === null ? sum : c === 1 ? sum.scale(2) : Complex.ZERO);
+    Ss.push(c === null ? sum : sum.scale(2));
     if (Rs.length < 4) continue;
     const J = Math.min(MAX_TERMS, Rs.length - 1);
     const w = extrapolationWeights(Rs.slice(-(J + 1)), p);
